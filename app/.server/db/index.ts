@@ -1,0 +1,13 @@
+import { drizzle } from "drizzle-orm/node-postgres";
+import pg from "pg";
+import { env } from "../env";
+import * as schema from "./schema";
+
+export const pool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 10 });
+// A dropped connection (e.g. the database restarting) must not crash the server.
+pool.on("error", (error) => console.error("[db] idle client error:", error.message));
+
+export const db = drizzle(pool, { schema });
+export type Db = typeof db;
+export type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+export { schema };

@@ -1,0 +1,266 @@
+// Tilthmark's tables. Raw inputs are stored; derived values (SOM, SOC, stocks) are computed
+// by analysis/ and never stored as typed numbers.
+import { sql } from "drizzle-orm";
+import {
+  bigserial,
+  boolean,
+  customType,
+  date,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  serial,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+import { programs, users } from "./auth-schema";
+
+export * from "./auth-schema";
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({
+  dataType: () => "bytea",
+});
+
+const createdAt = () => timestamp("created_at", { withTimezone: true }).notNull().defaultNow();
+const updatedAt = () => timestamp("updated_at", { withTimezone: true }).notNull().defaultNow();
+const programRef = () =>
+  text("program_id")
+    .notNull()
+    .references(() => programs.id, { onDelete: "cascade" });
+
+export const TRIAL_STATUSES = ["draft", "locked", "running", "closed"] as const;
+export const TRIAL_DESIGNS = ["crd", "rcbd", "factorial_rcbd", "split_plot"] as const;
+
+export const sites = pgTable(
+  "site",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    name: text("name").notNull(),
+    latitude: doublePrecision("latitude"),
+    longitude: doublePrecision("longitude"),
+    soilSeries: text("soil_series"),
+    textureClass: text("texture_class"),
+    sandPct: doublePrecision("sand_pct"),
+    siltPct: doublePrecision("silt_pct"),
+    clayPct: doublePrecision("clay_pct"),
+    notes: text("notes"),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex("site_program_name_idx").on(t.programId, t.name)],
+);
+
+export const trials = pgTable(
+  "trial",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    siteId: uuid("site_id").references(() => sites.id, { onDelete: "restrict" }),
+    title: text("title").notNull(),
+    objective: text("objective"),
+    hypotheses: text("hypotheses"),
+    status: text("status", { enum: TRIAL_STATUSES }).notNull().default("draft"),
+    design: text("design", { enum: TRIAL_DESIGNS }).notNull().default("rcbd"),
+    plotLengthM: doublePrecision("plot_length_m"),
+    plotWidthM: doublePrecision("plot_width_m"),
+    alleyBetweenPlotsM: doublePrecision("alley_between_plots_m"),
+    alleyBetweenBlocksM: doublePrecision("alley_between_blocks_m"),
+    blockCount: integer("block_count"),
+    randomizationSeed: integer("randomization_seed"),
+    socFactor: doublePrecision("soc_factor").notNull().default(1.724),
+    /** Bumped on every committed data change; results are cached by it. */
+    dataVersion: integer("data_version").notNull().default(0),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    lockedAt: timestamp("locked_at", { withTimezone: true }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index("trial_program_idx").on(t.programId)],
+);
+
+export const treatments = pgTable(
+  "treatment",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    code: text("code").notNull(),
+    name: text("name").notNull(),
+    description: text("description"),
+    isCheck: boolean("is_check").notNull().default(false),
+    position: integer("position").notNull().default(0),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("treatment_trial_code_idx").on(t.trialId, t.code)],
+);
+
+export const blocks = pgTable(
+  "block",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+  },
+  (t) => [uniqueIndex("block_trial_number_idx").on(t.trialId, t.number)],
+);
+
+export const plots = pgTable(
+  "plot",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    blockId: uuid("block_id")
+      .notNull()
+      .references(() => blocks.id, { onDelete: "cascade" }),
+    treatmentId: uuid("treatment_id")
+      .notNull()
+      .references(() => treatments.id, { onDelete: "restrict" }),
+    /** Field convention: block × 100 + position within the block. */
+    plotNumber: integer("plot_number").notNull(),
+    positionInBlock: integer("position_in_block").notNull(),
+    /** For split-plot designs: the main plot this sub-plot lies in. */
+    mainPlotNumber: integer("main_plot_number"),
+  },
+  (t) => [uniqueIndex("plot_trial_number_idx").on(t.trialId, t.plotNumber)],
+);
+
+export const seasons = pgTable(
+  "season",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    label: text("label").notNull(),
+    ordinal: integer("ordinal").notNull(),
+  },
+  (t) => [uniqueIndex("season_trial_label_idx").on(t.trialId, t.label)],
+);
+
+export type DepthIncrement = { topCm: number; bottomCm: number };
+
+export const samplingEvents = pgTable(
+  "sampling_event",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    seasonId: uuid("season_id")
+      .notNull()
+      .references(() => seasons.id, { onDelete: "restrict" }),
+    eventDate: date("event_date").notNull(),
+    isBaseline: boolean("is_baseline").notNull().default(false),
+    depths: jsonb("depths").$type<DepthIncrement[]>().notNull(),
+    variables: jsonb("variables").$type<string[]>().notNull().default(sql`'[]'::jsonb`),
+    createdAt: createdAt(),
+  },
+  (t) => [index("sampling_event_trial_idx").on(t.trialId)],
+);
+
+export const samples = pgTable(
+  "sample",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    eventId: uuid("event_id")
+      .notNull()
+      .references(() => samplingEvents.id, { onDelete: "cascade" }),
+    plotId: uuid("plot_id")
+      .notNull()
+      .references(() => plots.id, { onDelete: "restrict" }),
+    topCm: doublePrecision("top_cm").notNull(),
+    bottomCm: doublePrecision("bottom_cm").notNull(),
+    code: text("code").notNull(),
+  },
+  (t) => [uniqueIndex("sample_trial_code_idx").on(t.trialId, t.code)],
+);
+
+/** Files exactly as received: never altered, so a database backup holds everything. */
+export const uploads = pgTable(
+  "upload",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "restrict" }),
+    kind: text("kind").notNull(),
+    filename: text("filename").notNull(),
+    contentType: text("content_type"),
+    sizeBytes: integer("size_bytes").notNull(),
+    sha256: text("sha256").notNull(),
+    content: bytea("content").notNull(),
+    status: text("status", { enum: ["received", "committed", "discarded"] })
+      .notNull()
+      .default("received"),
+    rowCount: integer("row_count"),
+    uploadedBy: text("uploaded_by")
+      .notNull()
+      .references(() => users.id, { onDelete: "restrict" }),
+    uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
+    committedAt: timestamp("committed_at", { withTimezone: true }),
+  },
+  (t) => [index("upload_trial_idx").on(t.trialId)],
+);
+
+/** One measured row: raw inputs as received (masses, dimensions, readings) keyed by variable. */
+export const measurements = pgTable(
+  "measurement",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    sampleId: uuid("sample_id")
+      .notNull()
+      .references(() => samples.id, { onDelete: "restrict" }),
+    uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "restrict" }),
+    kind: text("kind").notNull(),
+    inputs: jsonb("inputs").$type<Record<string, number | string | null>>().notNull(),
+    sourceRow: integer("source_row"),
+    status: text("status", { enum: ["ok", "excluded"] }).notNull().default("ok"),
+    statusReason: text("status_reason"),
+    supersedes: uuid("supersedes"),
+    enteredBy: text("entered_by")
+      .notNull()
+      .references(() => users.id, { onDelete: "restrict" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("measurement_sample_idx").on(t.sampleId), index("measurement_upload_idx").on(t.uploadId)],
+);
+
+export const auditLog = pgTable(
+  "audit_log",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    programId: text("program_id").references(() => programs.id, { onDelete: "cascade" }),
+    trialId: uuid("trial_id").references(() => trials.id, { onDelete: "cascade" }),
+    actorId: text("actor_id").references(() => users.id, { onDelete: "set null" }),
+    action: text("action").notNull(),
+    entity: text("entity").notNull(),
+    entityId: text("entity_id"),
+    details: jsonb("details").$type<Record<string, unknown>>(),
+    at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("audit_program_idx").on(t.programId, t.at)],
+);
+
+/** Messages captured by the local SMTP fake (demo mode and tests only). */
+export const mailboxMessages = pgTable("mailbox_message", {
+  id: serial("id").primaryKey(),
+  envelopeFrom: text("envelope_from"),
+  envelopeTo: text("envelope_to").notNull(),
+  subject: text("subject"),
+  text: text("text"),
+  html: text("html"),
+  receivedAt: timestamp("received_at", { withTimezone: true }).notNull().defaultNow(),
+});

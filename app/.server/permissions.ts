@@ -1,0 +1,97 @@
+// The guard every loader and action calls. It checks a permission (never a rank) for a scope.
+import { and, eq } from "drizzle-orm";
+import { data, redirect } from "react-router";
+import { roleCan, type Permission, type Role } from "~/permissions";
+import { db, schema } from "./db";
+import { getSession, type SessionUser } from "./session";
+
+export type Scope = { programId: string } | { trialId: string };
+
+export type ProgramMember = {
+  user: SessionUser;
+  programId: string;
+  programName: string;
+  role: Role;
+  memberId: string;
+};
+
+function isApiRequest(request: Request) {
+  return new URL(request.url).pathname.startsWith("/api/");
+}
+
+/** 401: pages redirect to sign-in and come back; API routes answer JSON. */
+export function unauthorized(request: Request): never {
+  if (isApiRequest(request)) {
+    throw data({ error: "Sign in required." }, { status: 401 });
+  }
+  const url = new URL(request.url);
+  const back = url.pathname + url.search;
+  throw redirect(`/sign-in?redirectTo=${encodeURIComponent(back)}`);
+}
+
+export function forbidden(request: Request, message: string): never {
+  throw data(isApiRequest(request) ? { error: message } : message, { status: 403 });
+}
+
+export function notFound(request: Request, message: string): never {
+  throw data(isApiRequest(request) ? { error: message } : message, { status: 404 });
+}
+
+/** Signed-in user or 401. For pages that belong to no program (home, account). */
+export async function requireUser(request: Request): Promise<SessionUser> {
+  const session = await getSession(request);
+  if (!session) unauthorized(request);
+  return session.user;
+}
+
+/** The install's administrator (the first account) creates programs. */
+export async function requireAdmin(request: Request): Promise<SessionUser> {
+  const user = await requireUser(request);
+  if (!user.isAdmin) forbidden(request, "Only the administrator of this Tilthmark install can do this.");
+  return user;
+}
+
+async function programIdOf(scope: Scope): Promise<string | null> {
+  if ("programId" in scope) return scope.programId;
+  const uuidLike = /^[0-9a-f-]{36}$/i.test(scope.trialId);
+  if (!uuidLike) return null;
+  const [trial] = await db
+    .select({ programId: schema.trials.programId })
+    .from(schema.trials)
+    .where(eq(schema.trials.id, scope.trialId));
+  return trial?.programId ?? null;
+}
+
+/**
+ * Returns the signed-in member of the scope's program when their role grants `permission`;
+ * otherwise throws 401 (signed out), 404 (no such program or trial) or 403 (not allowed).
+ */
+export async function requirePermission(
+  request: Request,
+  scope: Scope,
+  permission: Permission,
+): Promise<ProgramMember> {
+  const user = await requireUser(request);
+  const programId = await programIdOf(scope);
+  if (!programId) notFound(request, "trialId" in scope ? "No such trial." : "No such program.");
+
+  const [row] = await db
+    .select({
+      memberId: schema.members.id,
+      role: schema.members.role,
+      programName: schema.programs.name,
+    })
+    .from(schema.programs)
+    .leftJoin(
+      schema.members,
+      and(eq(schema.members.organizationId, schema.programs.id), eq(schema.members.userId, user.id)),
+    )
+    .where(eq(schema.programs.id, programId));
+
+  if (!row) notFound(request, "No such program.");
+  if (!row.memberId || !row.role) forbidden(request, "You are not a member of this program.");
+  if (!roleCan(row.role, permission)) {
+    forbidden(request, `Your role (${row.role}) does not allow this. Ask a program owner if you need it.`);
+  }
+  return { user, programId, programName: row.programName, role: row.role as Role, memberId: row.memberId };
+}

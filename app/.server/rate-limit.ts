@@ -1,0 +1,25 @@
+// Limits on sign-in, password reset and invitations (and later uploads). Limits come from the
+// environment so tests and benchmarks can raise them. In memory: one app server keeps its own
+// counters; several servers behind a balancer each enforce the limit.
+import { RateLimiterMemory, RateLimiterRes } from "rate-limiter-flexible";
+import { env } from "./env";
+
+const limiters = {
+  signIn: new RateLimiterMemory({ points: env.RATE_LIMIT_SIGN_IN, duration: env.RATE_LIMIT_WINDOW_S }),
+  reset: new RateLimiterMemory({ points: env.RATE_LIMIT_RESET, duration: env.RATE_LIMIT_WINDOW_S }),
+  invite: new RateLimiterMemory({ points: env.RATE_LIMIT_INVITE, duration: env.RATE_LIMIT_WINDOW_S }),
+};
+
+export type LimitKind = keyof typeof limiters;
+
+/** Consumes one attempt; returns null when allowed, or a sentence saying when to retry. */
+export async function consumeAttempt(kind: LimitKind, key: string): Promise<string | null> {
+  try {
+    await limiters[kind].consume(key.toLowerCase());
+    return null;
+  } catch (rejection) {
+    if (!(rejection instanceof RateLimiterRes)) throw rejection;
+    const minutes = Math.max(1, Math.ceil(rejection.msBeforeNext / 60_000));
+    return `Too many attempts. Please wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again.`;
+  }
+}

@@ -1,0 +1,20 @@
+# Shared helpers for start.sh and test.sh.
+
+# Installs npm dependencies when node_modules is missing or older than the lockfile.
+ensure_node_modules() {
+  if [ ! -d node_modules ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+    echo "[setup] installing npm dependencies (npm ci)" >&2
+    npm ci --no-audit --no-fund
+  fi
+}
+
+# Installs Debian's chromium for the browser tests when it is missing (needs root or sudo).
+ensure_chromium() {
+  if [ ! -x /usr/bin/chromium ]; then
+    echo "[setup] installing Debian's chromium for browser tests (needs root or sudo)" >&2
+    local sudo=""
+    [ "$(id -u)" -ne 0 ] && sudo="sudo"
+    $sudo apt-get update -qq
+    DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq chromium >/dev/null
+  fi
+}
