@@ -5,6 +5,7 @@ import { defineConfig } from "vitest/config";
 export default defineConfig({
   resolve: { tsconfigPaths: true },
   test: {
+    teardownTimeout: 30_000,
     projects: [
       {
         extends: true,

@@ -11,6 +11,8 @@ declare module "jstat" {
     normal: Distribution;
     chisquare: Distribution;
     tukey: { cdf(q: number, nmeans: number, df: number): number; inv(p: number, nmeans: number, df: number): number };
+    /** Regularized incomplete beta function I_x(a, b). */
+    ibeta(x: number, a: number, b: number): number;
   }
   const jStat: JStat;
   export default jStat;

@@ -1,0 +1,3 @@
+export * from "./application";
+export * from "./carbon-nitrogen";
+export * from "./pathogen-reduction";
