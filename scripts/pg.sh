@@ -47,7 +47,7 @@ data_dir() {
 socket_dir="/tmp/tm-pg-$port"
 # Test clusters are thrown away: skip fsync there for speed; keep it for demo data.
 extra=""
-[ "$name" = "test" ] && extra="-c fsync=off"
+case "$name" in test*) extra="-c fsync=off" ;; esac
 datadir=$(data_dir)
 
 case "$cmd" in

@@ -8,11 +8,13 @@ source scripts/lib.sh
 ensure_node_modules
 ensure_chromium
 
-PG_PORT=54339
+# Several checkouts or engineers on one machine can pick their own cluster and ports.
+PG_NAME="${TILTHMARK_TEST_PG_NAME:-test}"
+PG_PORT="${TILTHMARK_TEST_PG_PORT:-54339}"
 if [ -z "${DATABASE_URL:-}" ]; then
-  trap 'bash scripts/pg.sh stop test "$PG_PORT"' EXIT
-  bash scripts/pg.sh start test "$PG_PORT"
-  export DATABASE_URL="$(bash scripts/pg.sh url test "$PG_PORT")"
+  trap 'bash scripts/pg.sh stop "$PG_NAME" "$PG_PORT"' EXIT
+  bash scripts/pg.sh start "$PG_NAME" "$PG_PORT"
+  export DATABASE_URL="$(bash scripts/pg.sh url "$PG_NAME" "$PG_PORT")"
 fi
 
 # Every test database is cloned from this migrated template.

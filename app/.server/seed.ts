@@ -1,9 +1,13 @@
 // Writes the demo scenario (datasets/demo/scenario.ts) into an empty database, in one transaction.
 import { randomUUID } from "node:crypto";
 import { hashPassword } from "better-auth/crypto";
-import { count } from "drizzle-orm";
+import { count, eq } from "drizzle-orm";
+import { rcbdLayout } from "../../analysis/design";
 import {
   DEMO_PASSWORD,
+  demoAmendments,
+  demoApplications,
+  demoLayoutSeed,
   demoProgram,
   demoSite,
   demoTreatments,
@@ -38,9 +42,49 @@ export async function seedDemo() {
       .insert(schema.trials)
       .values({ programId, siteId: site.id, createdBy: userIds.researcher, ...demoTrial })
       .returning();
-    await tx
+    const treatments = await tx
       .insert(schema.treatments)
-      .values(demoTreatments.map((t, position) => ({ trialId: trial.id, position, ...t })));
+      .values(demoTreatments.map((t, position) => ({ trialId: trial.id, position, ...t })))
+      .returning();
+    const treatmentId = Object.fromEntries(treatments.map((t) => [t.code, t.id]));
+
+    // Amendments, batches and what each treatment applies.
+    const batchId: Record<string, string> = {};
+    for (const { batches, ...amendment } of demoAmendments) {
+      const [row] = await tx.insert(schema.amendments).values({ programId, ...amendment }).returning();
+      for (const batch of batches) {
+        const [b] = await tx.insert(schema.amendmentBatches).values({ amendmentId: row.id, ...batch }).returning();
+        batchId[batch.label] = b.id;
+      }
+    }
+    for (const [code, applications] of Object.entries(demoApplications)) {
+      for (const { batch, ...rest } of applications) {
+        await tx.insert(schema.treatmentApplications).values({ treatmentId: treatmentId[code], batchId: batchId[batch], ...rest });
+      }
+    }
+
+    // The locked 6 × 4 RCBD layout: blocks as field rows, plot numbers block × 100 + position.
+    const layout = rcbdLayout({ treatments: demoTreatments.map((t) => t.code), blocks: demoTrial.blockCount, seed: demoLayoutSeed });
+    const blocks = await tx
+      .insert(schema.blocks)
+      .values(Array.from({ length: demoTrial.blockCount }, (_, i) => ({ trialId: trial.id, number: i + 1 })))
+      .returning();
+    const blockId = Object.fromEntries(blocks.map((b) => [b.number, b.id]));
+    await tx.insert(schema.plots).values(
+      layout.plots.map((p) => ({
+        trialId: trial.id,
+        blockId: blockId[p.block ?? 1],
+        treatmentId: treatmentId[p.treatment],
+        plotNumber: p.plotNumber,
+        positionInBlock: p.position,
+        fieldRow: (p.block ?? 1) - 1,
+        fieldColumn: p.column - 1,
+      })),
+    );
+    await tx
+      .update(schema.trials)
+      .set({ randomizationSeed: demoLayoutSeed, status: "locked", lockedAt: new Date("2025-03-15T12:00:00Z") })
+      .where(eq(schema.trials.id, trial.id));
     await recordAudit(
       { programId, trialId: trial.id, actorId: userIds.owner, action: "seed", entity: "demo", details: { scenario: "Cedar Hollow" } },
       tx,

@@ -4,7 +4,7 @@ import { type ChildProcess, execFileSync, spawn } from "node:child_process";
 import type { TestProject } from "vitest/node";
 import { createTestDatabase, dropTestDatabase } from "../support/databases";
 
-const PORT = 3111;
+const PORT = Number(process.env.TILTHMARK_E2E_PORT ?? 3111);
 let server: ChildProcess | undefined;
 let database: { name: string; url: string } | undefined;
 

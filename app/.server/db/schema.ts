@@ -72,6 +72,11 @@ export const trials = pgTable(
     alleyBetweenBlocksM: doublePrecision("alley_between_blocks_m"),
     blockCount: integer("block_count"),
     randomizationSeed: integer("randomization_seed"),
+    /** Plot numbering within blocks: straight, or serpentine (every other block reversed). */
+    arrangement: text("arrangement", { enum: ["straight", "serpentine"] }).notNull().default("straight"),
+    /** Blocks laid side by side as rows or as columns of the field. */
+    blockOrientation: text("block_orientation", { enum: ["rows", "columns"] }).notNull().default("rows"),
+    labMethodId: uuid("lab_method_id"),
     socFactor: doublePrecision("soc_factor").notNull().default(1.724),
     /** Bumped on every committed data change; results are cached by it. */
     dataVersion: integer("data_version").notNull().default(0),
@@ -95,6 +100,8 @@ export const treatments = pgTable(
     description: text("description"),
     isCheck: boolean("is_check").notNull().default(false),
     position: integer("position").notNull().default(0),
+    /** Factorial and split-plot trials: the level of each factor, e.g. { amendment: "compost", rate: "20" }. */
+    factorLevels: jsonb("factor_levels").$type<Record<string, string>>(),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("treatment_trial_code_idx").on(t.trialId, t.code)],
@@ -130,6 +137,9 @@ export const plots = pgTable(
     positionInBlock: integer("position_in_block").notNull(),
     /** For split-plot designs: the main plot this sub-plot lies in. */
     mainPlotNumber: integer("main_plot_number"),
+    /** Position on the field grid (0-based), as drawn on the plot map. */
+    fieldRow: integer("field_row").notNull().default(0),
+    fieldColumn: integer("field_column").notNull().default(0),
   },
   (t) => [uniqueIndex("plot_trial_number_idx").on(t.trialId, t.plotNumber)],
 );
@@ -197,6 +207,7 @@ export const uploads = pgTable(
       .notNull()
       .references(() => trials.id, { onDelete: "restrict" }),
     kind: text("kind").notNull(),
+    eventId: uuid("event_id").references(() => samplingEvents.id, { onDelete: "restrict" }),
     filename: text("filename").notNull(),
     contentType: text("content_type"),
     sizeBytes: integer("size_bytes").notNull(),
@@ -206,6 +217,8 @@ export const uploads = pgTable(
       .notNull()
       .default("received"),
     rowCount: integer("row_count"),
+    /** How the bytes were read: delimiter, decimal comma, column mapping. */
+    parseOptions: jsonb("parse_options").$type<Record<string, unknown>>(),
     uploadedBy: text("uploaded_by")
       .notNull()
       .references(() => users.id, { onDelete: "restrict" }),
@@ -264,3 +277,170 @@ export const mailboxMessages = pgTable("mailbox_message", {
   html: text("html"),
   receivedAt: timestamp("received_at", { withTimezone: true }).notNull().defaultNow(),
 });
+
+export const AMENDMENT_MATERIALS = [
+  "compost",
+  "leaf_mould",
+  "spent_coffee_grounds",
+  "manure",
+  "biochar",
+  "cardboard",
+  "microbial_drench",
+  "fungal_inoculant",
+  "other",
+] as const;
+
+export const amendments = pgTable(
+  "amendment",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    name: text("name").notNull(),
+    material: text("material", { enum: AMENDMENT_MATERIALS }).notNull(),
+    description: text("description"),
+    source: text("source"),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex("amendment_program_name_idx").on(t.programId, t.name)],
+);
+
+/** One delivery or lot of an amendment with its lab analysis. Moisture is wet basis (lab reports). */
+export const amendmentBatches = pgTable(
+  "amendment_batch",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    amendmentId: uuid("amendment_id")
+      .notNull()
+      .references(() => amendments.id, { onDelete: "cascade" }),
+    label: text("label").notNull(),
+    receivedOn: date("received_on"),
+    moistureWetBasisPct: doublePrecision("moisture_wet_basis_pct"),
+    totalCarbonDryPct: doublePrecision("total_carbon_dry_pct"),
+    totalNitrogenDryPct: doublePrecision("total_nitrogen_dry_pct"),
+    ph: doublePrecision("ph"),
+    ecDsPerM: doublePrecision("ec_ds_per_m"),
+    /** Composts and manures: how the pile was managed, which decides the pathogen-reduction rule. */
+    compostingMethod: text("composting_method", { enum: ["turned_windrow", "static_pile", "in_vessel"] }),
+    notes: text("notes"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("batch_amendment_label_idx").on(t.amendmentId, t.label)],
+);
+
+export const batchTemperatureReadings = pgTable(
+  "batch_temperature_reading",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    batchId: uuid("batch_id")
+      .notNull()
+      .references(() => amendmentBatches.id, { onDelete: "cascade" }),
+    readAt: timestamp("read_at", { withTimezone: false }).notNull(),
+    probeC: doublePrecision("probe_c").notNull(),
+    turned: boolean("turned").notNull().default(false),
+  },
+  (t) => [index("temperature_batch_idx").on(t.batchId, t.readAt)],
+);
+
+export const TIMINGS = ["once", "each_season", "every_n_weeks"] as const;
+
+/** What a treatment puts on a plot: a batch at a dry-matter rate or as a layer. */
+export const treatmentApplications = pgTable(
+  "treatment_application",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    treatmentId: uuid("treatment_id")
+      .notNull()
+      .references(() => treatments.id, { onDelete: "cascade" }),
+    batchId: uuid("batch_id").references(() => amendmentBatches.id, { onDelete: "restrict" }),
+    rateMgDmPerHa: doublePrecision("rate_mg_dm_per_ha"),
+    layerDepthCm: doublePrecision("layer_depth_cm"),
+    timing: text("timing", { enum: TIMINGS }).notNull().default("once"),
+    everyNWeeks: integer("every_n_weeks"),
+    notes: text("notes"),
+  },
+  (t) => [index("application_treatment_idx").on(t.treatmentId)],
+);
+
+/** Factors of factorial and split-plot trials; treatments are their level combinations. */
+export const trialFactors = pgTable(
+  "trial_factor",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    levels: jsonb("levels").$type<string[]>().notNull(),
+    /** Split-plot only: which factor goes on main plots and which on sub-plots. */
+    stratum: text("stratum", { enum: ["main", "sub"] }),
+    position: integer("position").notNull().default(0),
+  },
+  (t) => [uniqueIndex("factor_trial_name_idx").on(t.trialId, t.name)],
+);
+
+/** A lab's LOI method and its calibration SOM = slope·LOI + intercept (identity by default). */
+export const labMethods = pgTable(
+  "lab_method",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    name: text("name").notNull(),
+    ignitionC: doublePrecision("ignition_c"),
+    ignitionHours: doublePrecision("ignition_hours"),
+    somSlope: doublePrecision("som_slope").notNull().default(1),
+    somIntercept: doublePrecision("som_intercept").notNull().default(0),
+    notes: text("notes"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("lab_method_program_name_idx").on(t.programId, t.name)],
+);
+
+/** Program-registered variables beyond the built-in ones (earthworms per m², pH, yield …). */
+export const customVariables = pgTable(
+  "custom_variable",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    variableId: text("variable_id").notNull(),
+    label: text("label").notNull(),
+    unit: text("unit").notNull(),
+    decimals: integer("decimals").notNull().default(2),
+    minValue: doublePrecision("min_value"),
+    maxValue: doublePrecision("max_value"),
+    description: text("description"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("custom_variable_program_id_idx").on(t.programId, t.variableId)],
+);
+
+/** A column mapping chosen once per program for a set of file headers, then reused. */
+export const columnMappings = pgTable(
+  "column_mapping",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    kind: text("kind").notNull(),
+    headerSignature: text("header_signature").notNull(),
+    mapping: jsonb("mapping").$type<Record<string, string>>().notNull(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex("column_mapping_key_idx").on(t.programId, t.kind, t.headerSignature)],
+);
+
+/** The ESM reference mass, fixed once per trial and depth span so every season compares alike. */
+export const referenceMasses = pgTable(
+  "reference_mass",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    topCm: doublePrecision("top_cm").notNull(),
+    bottomCm: doublePrecision("bottom_cm").notNull(),
+    massMgPerHa: doublePrecision("mass_mg_per_ha").notNull(),
+    fixedBy: text("fixed_by").references(() => users.id, { onDelete: "set null" }),
+    fixedAt: timestamp("fixed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("reference_mass_span_idx").on(t.trialId, t.topCm, t.bottomCm)],
+);
