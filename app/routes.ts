@@ -14,7 +14,9 @@ export default [
     route("home", "routes/home.tsx"),
     route("programs/:programId", "routes/program.tsx"),
     route("programs/:programId/members", "routes/program.members.tsx"),
-    route("trials/:trialId", "routes/trial.tsx"),
+    route("trials/:trialId", "routes/trial-layout.tsx", [
+      index("routes/trial.overview.tsx"),
+    ]),
   ]),
   route("api/programs/:programId/trials", "routes/api.program-trials.ts"),
 ] satisfies RouteConfig;

@@ -1,18 +1,17 @@
 import { useLoaderData } from "react-router";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { getTrialOverview } from "~/.server/trials";
-import { DESIGN_LABELS, PageHeader, Section, StatusBadge } from "~/components/page";
-import type { Route } from "./+types/trial";
+import { DESIGN_LABELS, Section } from "~/components/page";
+import type { Route } from "./+types/trial.overview";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.trial.title ?? "Trial"} · Tilthmark` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const member = await requirePermission(request, { trialId: params.trialId }, "results.view");
+  await requirePermission(request, { trialId: params.trialId }, "results.view");
   const overview = await getTrialOverview(params.trialId);
   if (!overview) notFound(request, "No such trial.");
   const { trial, site, treatments } = overview;
   return {
-    program: { id: member.programId, name: member.programName },
     trial: {
       title: trial.title,
       objective: trial.objective,
@@ -40,15 +39,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 const fmt = (n: number | null | undefined, digits = 1) => (n == null ? "—" : n.toFixed(digits));
 
 export default function TrialPage() {
-  const { program, trial, site, treatments } = useLoaderData<typeof loader>();
+  const { trial, site, treatments } = useLoaderData<typeof loader>();
   return (
     <>
-      <PageHeader
-        crumbs={[{ to: `/programs/${program.id}`, label: program.name }]}
-        eyebrow={<>Trial · <StatusBadge status={trial.status} /></>}
-        title={trial.title}
-        lead={trial.objective}
-      />
+      {trial.objective && <p className="mb-8 max-w-3xl text-loam-800">{trial.objective}</p>}
       <div className="grid gap-8 lg:grid-cols-3">
         <div className="lg:col-span-2">
           <Section title={`Treatments (${treatments.length})`}>
