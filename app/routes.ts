@@ -12,6 +12,7 @@ export default [
   route("dev/mailbox", "routes/dev.mailbox.tsx"),
   layout("routes/app-layout.tsx", [
     route("home", "routes/home.tsx"),
+    route("account", "routes/account.tsx"),
     route("programs/:programId", "routes/program.tsx"),
     route("programs/:programId/members", "routes/program.members.tsx"),
     route("trials/:trialId", "routes/trial-layout.tsx", [

@@ -33,10 +33,10 @@ export default function AppLayout() {
             ))}
           </nav>
           <div className="flex items-center gap-3 text-sm">
-            <span className="text-loam-700">
+            <Link to="/account" className="text-loam-800 no-underline hover:underline" aria-label={`Your account: ${user.name}`}>
               {user.name}
               {user.isAdmin && <span className="ml-2 rounded bg-loam-100 px-1.5 py-0.5 text-xs text-loam-800">administrator</span>}
-            </span>
+            </Link>
             <Form method="post" action="/sign-out">
               <button type="submit" className="rounded px-2 py-1 text-moss-800 underline underline-offset-2 hover:bg-loam-100">
                 Sign out

@@ -1,3 +1,4 @@
+import { useEffect, useRef } from "react";
 import { Form, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import { email, invalid, parseForm } from "~/.server/forms";
@@ -81,6 +82,12 @@ export default function MembersPage() {
   const errors = result && "errors" in result ? result.errors : undefined;
   const values = result && "values" in result ? result.values : undefined;
   const inviteFailed = values?.intent === "invite";
+  const inviteForm = useRef<HTMLFormElement>(null);
+  const invited = result && "ok" in result && result.ok.startsWith("Invitation sent");
+  // After a successful invitation, clear the form for the next person.
+  useEffect(() => {
+    if (invited) inviteForm.current?.reset();
+  }, [result, invited]);
   return (
     <>
       <PageHeader
@@ -176,7 +183,7 @@ export default function MembersPage() {
         </div>
         <aside>
           <Section title="Invite someone">
-            <Form method="post" className="flex flex-col gap-4" noValidate>
+            <Form method="post" ref={inviteForm} className="flex flex-col gap-4" noValidate>
               <Field
                 label="E-mail"
                 name="email"

@@ -218,3 +218,33 @@ describe("password reset", () => {
     expect(result.body).toMatchObject({ sent: true });
   });
 });
+
+describe("account preferences", () => {
+  it("saves the unit system and refuses a forged value beside the field", async () => {
+    const accountRoute = await import("~/routes/account");
+    const cookie = await cookieFor("ada@station.example", "brand-new-password");
+    const forged = await post(accountRoute, cookie, "/account", { intent: "preferences", name: "Ada Admin", unitSystem: "imperial", notifyBriefs: "yes" });
+    expect(forged.status).toBe(400);
+    expect(forged.body).toMatchObject({ errors: { unitSystem: ["Choose SI or US customary units."] } });
+    const saved = await post(accountRoute, cookie, "/account", { intent: "preferences", name: "Ada Admin", unitSystem: "us", notifyBriefs: "no" });
+    expect(saved.body).toMatchObject({ ok: "Preferences saved." });
+    const [user] = await db.select().from(schema.users).where(eq(schema.users.email, "ada@station.example"));
+    expect(user).toMatchObject({ unitSystem: "us", notifyBriefs: false });
+  });
+
+  it("refuses an empty or over-long program name beside the field and creates nothing", async () => {
+    const before = await db.select().from(schema.programs);
+    const cookie = await cookieFor("ada@station.example", "brand-new-password");
+    const empty = await post(homeRoute, cookie, "/home", { name: "  " });
+    expect(empty.body).toMatchObject({ errors: { name: ["Use at least 3 characters."] } });
+    const long = await post(homeRoute, cookie, "/home", { name: "x".repeat(101) });
+    expect(long.body).toMatchObject({ errors: { name: ["Use at most 100 characters."] } });
+    expect(await db.select().from(schema.programs)).toHaveLength(before.length);
+  });
+
+  it("refuses program creation to someone who is not the administrator", async () => {
+    const cookie = await cookieFor("tech@uni.example", "tess-long-password");
+    const result = await post(homeRoute, cookie, "/home", { name: "Rogue Program" });
+    expect(result.status).toBe(403);
+  });
+});
