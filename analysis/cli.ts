@@ -1,9 +1,8 @@
 // Command-line analysis of a tidy CSV (one row per plot, and season): prints the ANOVA table,
 // means with letters, pairwise comparisons and contrasts, as a table or as one JSON object.
-//   analyze --input FILE.csv --response COL [--treatment COL | --factors A,B | --main A --sub B]
-//           [--block COL] [--season COL] [--method tukey|lsd] [--alpha 0.05]
-//           [--contrast "NAME=c1,c2,..."]... [--format json|table]
+// `npm run --silent analyze -- …` runs it compiled from build/cli/ (scripts/analyze.mjs).
 import { readFileSync } from "node:fs";
+import { pathToFileURL } from "node:url";
 import Papa from "papaparse";
 import {
   factorialAnova,
@@ -37,6 +36,12 @@ export interface CliOptions {
   contrasts: ContrastSpec[];
   format: "json" | "table";
 }
+
+export const USAGE = `usage: npm run --silent analyze -- --input FILE.csv --response COL
+         [--treatment COL | --factors A,B | --main A --sub B] [--block COL] [--season COL]
+         [--method tukey|lsd] [--alpha 0.05] [--contrast "NAME=c1,c2,..."]... [--format json|table]
+One row per plot (and season); an empty response cell is a missing value. Without --block the
+design is completely randomized; with --season the seasons are analysed as a split-plot in time.`;
 
 /** Parses the command line; throws with a one-line reason on anything it cannot use. */
 export function parseArguments(argv: readonly string[]): CliOptions {
@@ -86,6 +91,12 @@ export function parseArguments(argv: readonly string[]): CliOptions {
   const layouts = [options.treatment, options.factors, options.main ?? options.sub].filter((x) => x !== undefined).length;
   if (layouts !== 1) throw new Error("give exactly one of --treatment COL, --factors A,B or --main A --sub B");
   if ((options.main === undefined) !== (options.sub === undefined)) throw new Error("--main and --sub go together");
+  if (options.factors && (options.factors.length < 2 || options.factors.some((f) => f === ""))) {
+    throw new Error(`--factors takes two or three column names separated by commas, e.g. --factors amendment,rate`);
+  }
+  if (options.main && options.season) {
+    throw new Error("--season cannot be combined with --main/--sub; analyse a split-plot one season at a time");
+  }
   return options;
 }
 
@@ -95,16 +106,24 @@ export function parseArguments(argv: readonly string[]): CliOptions {
  * those standard names; factorial and split-plot factors keep their column names).
  */
 export function plotsFromCsv(text: string, response: string, columns: Readonly<Record<string, string>>): LeveledPlot[] {
-  const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: "greedy" });
-  const header = parsed.meta.fields ?? [];
-  for (const column of [response, ...Object.values(columns)]) {
-    if (!header.includes(column)) throw new Error(`the file has no column "${column}" (columns: ${header.join(", ")})`);
-  }
-  return parsed.data.map((row, i) => {
-    const cell = (row[response] ?? "").trim();
+  // A spreadsheet's byte-order mark would otherwise stick to the first column's name.
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  const rows = Papa.parse<string[]>(body, { header: false, skipEmptyLines: "greedy" }).data;
+  const header = (rows[0] ?? []).map((name) => name.trim());
+  const columnIndex = (column: string) => {
+    const index = header.indexOf(column);
+    if (index < 0) throw new Error(`the file has no column "${column}" (columns: ${header.join(", ")})`);
+    return index;
+  };
+  const responseIndex = columnIndex(response);
+  const factorIndex = Object.entries(columns).map(([name, column]) => [name, columnIndex(column)] as const);
+  return rows.slice(1).map((row, i) => {
+    const cell = (row[responseIndex] ?? "").trim();
     const value = cell === "" ? null : Number(cell);
     if (value !== null && !Number.isFinite(value)) throw new Error(`row ${i + 2}: ${response} "${cell}" is not a number`);
-    return { levels: Object.fromEntries(Object.entries(columns).map(([name, c]) => [name, (row[c] ?? "").trim()])), value };
+    const levels: Record<string, string> = {};
+    for (const [name, index] of factorIndex) levels[name] = (row[index] ?? "").trim();
+    return { levels, value };
   });
 }
 
@@ -126,48 +145,69 @@ interface Analysis {
   treatments: string[];
   /** For analyses across seasons: means are separated within each season. */
   season?: string;
+  /** Notes the report carries (assumptions, corrections). */
+  notes: string[];
 }
 
 function analyse(options: CliOptions, plots: LeveledPlot[]): Analysis {
   const block = options.block ? "block" : undefined;
   if (options.main && options.sub) {
-    if (!block) throw new Error("a split-plot needs --block");
+    if (!block) throw new Error("a split-plot needs --block (the replicate of each main plot)");
     const result = splitPlotAnova(plots, { block, main: [options.main], sub: [options.sub] });
-    return { model: "split-plot", result, term: `${options.main}:${options.sub}`, treatments: [options.main, options.sub] };
+    return { model: "split-plot", result, term: `${options.main}:${options.sub}`, treatments: [options.main, options.sub], notes: [] };
   }
   const treatments = options.factors ?? ["treatment"];
   if (options.season) {
-    if (!block) throw new Error("an analysis across seasons needs --block");
+    if (!block) throw new Error("an analysis across seasons needs --block: without it the rows cannot be followed as the same plot from season to season");
     const result = seasonsAnalysis(plots, { block, treatments, season: "season" });
-    return { model: "split-plot in time", result, term: [...treatments, "season"].join(":"), treatments, season: "season" };
+    const { epsilon, adjusted, assumption } = result.sphericity;
+    const corrected = adjusted.map((a) => `${a.source} p = ${a.p.toPrecision(3)}`).join(", ");
+    const notes = [`Greenhouse–Geisser ε = ${epsilon.toFixed(3)}; corrected ${corrected} (${assumption})`];
+    return { model: "split-plot in time", result, term: [...treatments, "season"].join(":"), treatments, season: "season", notes };
   }
   if (options.factors) {
     const result = factorialAnova(plots, { factors: options.factors, block });
     const model = block ? "factorial in RCBD" : "factorial (completely randomized)";
-    return { model, result, term: options.factors.join(":"), treatments };
+    return { model, result, term: options.factors.join(":"), treatments, notes: [] };
   }
   if (block) {
     const rcbdPlots = plots.map((p) => ({ block: p.levels.block, treatment: p.levels.treatment, value: p.value }));
-    return { model: "rcbd", result: rcbdAnova(rcbdPlots), term: "treatment", treatments };
+    return { model: "rcbd", result: rcbdAnova(rcbdPlots), term: "treatment", treatments, notes: [] };
   }
   const oneWayPlots = plots.map((p) => ({ treatment: p.levels.treatment, value: p.value }));
-  return { model: "one-way", result: oneWayAnova(oneWayPlots), term: "treatment", treatments };
+  return { model: "one-way", result: oneWayAnova(oneWayPlots), term: "treatment", treatments, notes: [] };
 }
 
 function separations(analysis: Analysis, options: CliOptions): MeanSeparation[] {
   const comparison = { method: options.method, alpha: options.alpha };
+  const set = analysis.result.means[analysis.term];
+  if (set.unavailableReason) {
+    // The ANOVA table still stands; means are listed without SEs, comparisons or letters.
+    const means = set.labels.map((label, i) => ({ label, mean: set.means[i], se: set.se[i], n: set.n[i], group: "" }));
+    return [{ term: set.term, method: options.method, alpha: options.alpha, means, comparisons: [], criticalDifference: null, protectedByF: null, note: set.unavailableReason }];
+  }
   if (analysis.season) return Object.values(separateMeansWithin(analysis.result, analysis.term, analysis.season, comparison));
   return [separateMeans(analysis.result, analysis.term, comparison)];
 }
 
-/** Tukey's HSD and the LSD, when every pair of means has the same SE and df; otherwise null. */
-function criticalDifferences(separation: MeanSeparation): { lsd: number | null; hsd: number | null } {
-  if (separation.criticalDifference === null || separation.comparisons.length === 0) return { lsd: null, hsd: null };
-  const { se, df } = separation.comparisons[0];
-  const alpha = separation.alpha;
+/**
+ * LSD = t_{1−α/2,ν}·SE and Tukey's HSD = q_{1−α}(k, ν)·SE/√2 (SE of a difference), when every
+ * pair of means in every family has the same SE and df — balanced data; otherwise null.
+ */
+function criticalDifferences(separations: readonly MeanSeparation[]): { lsd: number | null; hsd: number | null } {
+  const first = separations[0]?.comparisons[0];
+  const same = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.abs(b);
+  const uniform =
+    first !== undefined &&
+    separations.every(
+      (s) => s.criticalDifference !== null && s.means.length === separations[0].means.length && same(s.comparisons[0].se, first.se) && same(s.comparisons[0].df, first.df),
+    );
+  if (!uniform) return { lsd: null, hsd: null };
+  const { se, df } = first;
+  const alpha = separations[0].alpha;
   return {
     lsd: tQuantile(1 - alpha / 2, df) * se,
-    hsd: (studentizedRangeQuantile(1 - alpha, separation.means.length, df) * se) / Math.SQRT2,
+    hsd: (studentizedRangeQuantile(1 - alpha, separations[0].means.length, df) * se) / Math.SQRT2,
   };
 }
 
@@ -180,7 +220,7 @@ export function report(options: CliOptions, csvText: string): Record<string, unk
   const contrastTerm = analysis.season ? analysis.treatments.join(":") : analysis.term;
   const contrasts = options.contrasts.length ? testContrasts(result, contrastTerm, options.contrasts, options.alpha) : [];
   const seasonPosition = analysis.season ? result.means[analysis.term].factors.indexOf(analysis.season) : -1;
-  const { lsd, hsd } = seps.length === 1 ? criticalDifferences(seps[0]) : { lsd: null, hsd: null };
+  const { lsd, hsd } = criticalDifferences(seps);
   return {
     model: analysis.model,
     response: options.response,
@@ -207,7 +247,7 @@ export function report(options: CliOptions, csvText: string): Record<string, unk
     lsd,
     hsd,
     contrasts: contrasts.map(({ name, estimate, se, t, df, f, p, lower, upper }) => ({ name, estimate, se, t, df, f, p, lower, upper })),
-    notes: seps.map((s) => s.note).filter((n): n is string => n !== null),
+    notes: [...analysis.notes, ...new Set(seps.map((s) => s.note).filter((n): n is string => n !== null))],
   };
 }
 
@@ -232,7 +272,8 @@ export function formatReport(out: Record<string, unknown>): string {
     "",
     table(out.anova as Record<string, unknown>[], ["source", "df", "ss", "ms", "f", "p", "errorTerm"]),
     "",
-    `grand mean ${formatNumber(out.grandMean)}   CV ${formatNumber(out.cvPercent)} %`,
+    `grand mean ${formatNumber(out.grandMean)}   CV ${formatNumber(out.cvPercent)} %` +
+      (out.lsd !== null ? `   LSD ${formatNumber(out.lsd)}   Tukey HSD ${formatNumber(out.hsd)}` : ""),
     "",
     table(out.means as Record<string, unknown>[], Object.keys((out.means as Record<string, unknown>[])[0] ?? {})),
   ];
@@ -242,19 +283,41 @@ export function formatReport(out: Record<string, unknown>): string {
   return lines.join("\n");
 }
 
-export function main(argv: readonly string[]): number {
+/** Where the tool writes; tests pass their own to capture the output. */
+export interface CliOutput {
+  stdout: (text: string) => void;
+  stderr: (text: string) => void;
+}
+
+const processOutput: CliOutput = {
+  stdout: (text) => process.stdout.write(text),
+  stderr: (text) => process.stderr.write(text),
+};
+
+/** Runs the tool; returns the exit code: 0, or 1 after printing a one-line reason to stderr. */
+export function main(argv: readonly string[], output: CliOutput = processOutput): number {
+  if (argv.includes("--help") || argv.includes("-h")) {
+    output.stdout(`${USAGE}\n`);
+    return 0;
+  }
   try {
     const options = parseArguments(argv);
-    const text = readFileSync(options.input, "utf8");
+    let text: string;
+    try {
+      text = readFileSync(options.input, "utf8");
+    } catch (error) {
+      const code = (error as NodeJS.ErrnoException).code;
+      throw new Error(`cannot read ${options.input}: ${code === "ENOENT" ? "no such file" : code ?? String(error)}`);
+    }
     const out = report(options, text);
-    process.stdout.write(options.format === "json" ? `${JSON.stringify(out)}\n` : `${formatReport(out)}\n`);
+    output.stdout(options.format === "json" ? `${JSON.stringify(out)}\n` : `${formatReport(out)}\n`);
     return 0;
   } catch (error) {
-    process.stderr.write(`${error instanceof Error ? error.message.split("\n")[0] : String(error)}\n`);
+    output.stderr(`${error instanceof Error ? error.message.split("\n")[0] : String(error)}\n`);
     return 1;
   }
 }
 
-if (process.argv[1] && import.meta.url === new URL(`file://${process.argv[1]}`).href) {
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
   process.exitCode = main(process.argv.slice(2));
 }

@@ -292,6 +292,26 @@ function seasonsInOrder(rows: readonly PlotObservation[]): string[] {
  * Throws `ResultsError` with a researcher-readable message when the request cannot be honoured.
  */
 export function analyzeResults(rows: readonly PlotObservation[], request: ResultsRequest): ResultsPayload {
+  return fitResults(rows, request).payload;
+}
+
+/** A payload with the fitted model behind it: what contrasts and residual checks need beyond the JSON. */
+export interface FittedResults {
+  payload: ResultsPayload;
+  anova: AnovaResult;
+  /** The term whose means are the treatments (or treatment combinations) compared. */
+  term: string;
+  /** Label of a mean in `anova.means[term]` → treatment code. */
+  labelToCode: Map<string, string>;
+  /**
+   * The observations given to the model, in its order: residual rows index into this. For the rate
+   * of change the model sees one slope per plot instead, and this holds every observation behind them.
+   */
+  analysed: readonly PlotObservation[];
+}
+
+/** `analyzeResults`, keeping the fitted model. */
+export function fitResults(rows: readonly PlotObservation[], request: ResultsRequest): FittedResults {
   if (rows.length === 0) throw new ResultsError("There are no values of this variable at this depth yet.");
   const { term, labelToCode } = treatmentTerm(request);
   const treatmentRows = rows.filter((r) => !r.isBaseline);
@@ -301,7 +321,8 @@ export function analyzeResults(rows: readonly PlotObservation[], request: Result
         const season = request.season ?? seasonsInOrder(rows).at(-1)!;
         const inSeason = rows.filter((r) => r.season === season);
         if (inSeason.length === 0) throw new ResultsError(`There are no values in season “${season}”.`);
-        return assemble(request, inSeason, seasonAnova(request, inSeason), term, labelToCode, season);
+        const anova = seasonAnova(request, inSeason);
+        return { payload: assemble(request, inSeason, anova, term, labelToCode, season), anova, term, labelToCode, analysed: inSeason };
       }
       case "split_plot_time": {
         if (request.design === "split_plot") {
@@ -334,7 +355,7 @@ export function analyzeResults(rows: readonly PlotObservation[], request: Result
           `Greenhouse–Geisser ε = ${result.sphericity.epsilon.toFixed(3)}; ${result.sphericity.assumption}.`,
           "Treatment means are averaged over seasons; letters within each season compare treatments in that season only.",
         );
-        return payload;
+        return { payload, anova: result, term, labelToCode, analysed: treatmentRows };
       }
       case "change_from_baseline": {
         if (request.design !== "crd" && request.design !== "rcbd") {
@@ -364,7 +385,7 @@ export function analyzeResults(rows: readonly PlotObservation[], request: Result
         if (withoutBaseline.length > 0) {
           payload.notes.push(`Plots without a baseline value are left out: ${withoutBaseline.join(", ")}.`);
         }
-        return payload;
+        return { payload, anova: result, term: "treatment", labelToCode, analysed: later.filter((r) => baseOf.has(r.plotNumber)) };
       }
       case "rate_of_change": {
         if (request.design !== "rcbd") throw new ResultsError("Rate of change is analysed as an RCBD; this trial has another design.");
@@ -376,7 +397,7 @@ export function analyzeResults(rows: readonly PlotObservation[], request: Result
         payload.notes.push(
           "Each plot's least-squares slope over all its sampling times (baseline included), in units per year, analysed as an RCBD.",
         );
-        return payload;
+        return { payload, anova: result.anova, term: "treatment", labelToCode, analysed: rows };
       }
     }
   } catch (error) {

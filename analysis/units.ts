@@ -115,6 +115,11 @@ export function fahrenheitToCelsius(fahrenheit: number): number {
 // ----- water -----
 
 /** US gal = L / 3.785 411 784 (NIST SP 811). */
+/** US gallons per acre → cubic metres per hectare (exact definitions above). */
+export function usGallonsPerAcreToCubicMetresPerHa(gallonsPerAcre: number): number {
+  return ((gallonsPerAcre * LITRES_PER_US_GALLON) / 1000) * (10_000 / M2_PER_ACRE);
+}
+
 export function litresToUsGallons(litres: number): number {
   return litres / LITRES_PER_US_GALLON;
 }
@@ -212,6 +217,7 @@ export type SiUnit =
   | "m2"
   | "degC"
   | "cm3"
+  | "m3"
   | "count_per_m2"
   | "none";
 
@@ -239,6 +245,7 @@ export const UNITS: Record<SiUnit, UnitEntry> = {
   m2: { si: "m²", us: "ft²", toUs: squareMetresToSquareFeet },
   degC: { si: "°C", us: "°F", toUs: celsiusToFahrenheit },
   cm3: { si: "cm³", us: "in³", toUs: (cm3) => cm3 / CM_PER_INCH ** 3 },
+  m3: { si: "m³", us: "ft³", toUs: (m3) => m3 / M_PER_FOOT ** 3 },
   count_per_m2: { si: "per m²", us: "per ft²", toUs: (perM2) => perM2 * M_PER_FOOT * M_PER_FOOT },
   none: { si: "", us: "", toUs: same },
 };

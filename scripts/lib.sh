@@ -18,3 +18,16 @@ ensure_chromium() {
     DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq chromium >/dev/null
   fi
 }
+
+# The PostgreSQL client programs (Debian puts them under /usr/lib/postgresql/N/bin).
+pg_bin() {
+  for dir in /usr/lib/postgresql/*/bin; do
+    if [ -x "$dir/pg_dump" ]; then echo "$dir"; return 0; fi
+  done
+  dirname "$(command -v pg_dump)"
+}
+
+# DATABASE_URL, or the demo cluster's address.
+database_url() {
+  if [ -n "${DATABASE_URL:-}" ]; then echo "$DATABASE_URL"; else bash scripts/pg.sh url dev 54329; fi
+}

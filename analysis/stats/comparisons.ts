@@ -1,7 +1,7 @@
 import type { AnovaResult, MeanSet } from "./anova-table";
 import { studentizedRangeQuantile, studentizedRangeUpperP, tQuantile, tTwoSidedP } from "./distributions";
 import { compactLetterDisplay } from "./letters";
-import { linearCombinationVariance } from "./satterthwaite";
+import { pairDifferenceVariance } from "./satterthwaite";
 
 /** Tukey–Kramer (default) or Fisher's protected least significant difference. */
 export type ComparisonMethod = "tukey" | "lsd";
@@ -71,8 +71,7 @@ function criticalValue(method: ComparisonMethod, alpha: number, k: number, df: n
  * - LSD: t = d/SE, p = 2P(T_ν > |t|), CI d ± t_{1−α/2,ν}·SE (Fisher 1935).
  */
 export function compareTwoMeans(set: MeanSet, i: number, j: number, method: ComparisonMethod, alpha: number): PairwiseComparison {
-  const c = set.means.map((_, k) => (k === i ? 1 : k === j ? -1 : 0));
-  const { variance, df } = linearCombinationVariance(set, c);
+  const { variance, df } = pairDifferenceVariance(set, i, j);
   const diff = set.means[i] - set.means[j];
   const se = Math.sqrt(variance);
   const k = set.means.length;

@@ -221,19 +221,30 @@ export function splitPlotMeanVariance(
   mainCounts: readonly (readonly number[])[],
 ): { mainPlot: number[][]; subPlot: number[][] } {
   const sizes = mainCounts.map((counts) => counts.reduce((s, v) => s + v, 0));
+  const count = mainCounts.length;
+  // Σ over cell pairs sharing a main combination: accumulated per main combination, since most
+  // means lie in one or a few of them.
+  const common = Array.from({ length: count }, () => new Array<number>(count).fill(0));
+  const mainTotal = mainCounts[0]?.length ?? 0;
+  for (let i = 0; i < mainTotal; i++) {
+    const inMain = mainCounts.flatMap((counts, p) => (counts[i] === 0 ? [] : [p]));
+    for (const p of inMain) for (const q of inMain) common[p][q] += mainCounts[p][i] * mainCounts[q][i];
+  }
   const mainPlot: number[][] = [];
   const subPlot: number[][] = [];
-  mainCounts.forEach((cp, p) => {
-    mainPlot.push([]);
-    subPlot.push([]);
-    mainCounts.forEach((cq, q) => {
-      // Σ over cell pairs sharing a main combination, and the shared cells (means partition the cells).
-      const sameMain = cp.reduce((s, v, i) => s + v * cq[i], 0) / (sizes[p] * sizes[q]);
+  for (let p = 0; p < count; p++) {
+    const mainRow = new Array<number>(count);
+    const subRow = new Array<number>(count);
+    for (let q = 0; q < count; q++) {
+      const sameMain = common[p][q] / (sizes[p] * sizes[q]);
+      // The shared cells: the means partition the cells, so only a mean shares cells with itself.
       const shared = p === q ? 1 / sizes[p] : 0;
-      mainPlot[p].push(sameMain / (r * b));
-      subPlot[p].push((shared - sameMain / b) / r);
-    });
-  });
+      mainRow[q] = sameMain / (r * b);
+      subRow[q] = (shared - sameMain / b) / r;
+    }
+    mainPlot.push(mainRow);
+    subPlot.push(subRow);
+  }
   return { mainPlot, subPlot };
 }
 

@@ -1,4 +1,5 @@
 import jStat from "jstat";
+import { studentizedRangeQuantileTabulated, studentizedRangeUpperPTabulated } from "./studentized-range-table";
 
 // Thin, named wrappers over jstat so every caller reads in the trade's terms.
 // No distribution is re-implemented here.
@@ -37,17 +38,21 @@ export function fQuantile(p: number, df1: number, df2: number): number {
 
 /**
  * Upper-tail probability of the studentized range, P(Q > q) for nMeans means and df
- * error degrees of freedom (jstat's port of R's ptukey, Copenhaver & Holland 1988).
+ * error degrees of freedom (jstat's port of R's ptukey, Copenhaver & Holland 1988), read from a
+ * cached table of jstat's values (see studentized-range-table.ts): a direct call costs about
+ * half a millisecond, and a trial asks for thousands.
  */
 export function studentizedRangeUpperP(q: number, nMeans: number, df: number): number {
   if (!Number.isFinite(q)) return Number.NaN;
-  if (q <= 0) return 1;
-  return Math.min(1, Math.max(0, 1 - jStat.tukey.cdf(q, nMeans, df)));
+  return studentizedRangeUpperPTabulated(q, nMeans, df);
 }
 
-/** Quantile q(p; nMeans, df) of the studentized range, e.g. q(0.95; 3, 12) = 3.773. */
+/**
+ * Quantile q(p; nMeans, df) of the studentized range, e.g. q(0.95; 3, 12) = 3.773, by inverting
+ * the same table of jstat's CDF that `studentizedRangeUpperP` reads, so Tukey CIs and p-values agree.
+ */
 export function studentizedRangeQuantile(p: number, nMeans: number, df: number): number {
-  return jStat.tukey.inv(p, nMeans, df);
+  return studentizedRangeQuantileTabulated(p, nMeans, df);
 }
 
 /** Standard normal quantile Φ⁻¹(p). */

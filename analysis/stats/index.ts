@@ -57,7 +57,7 @@ export {
 } from "./designs";
 
 // Mean separation and contrasts
-export { linearCombinationVariance, satterthwaiteDf, type VariancePart } from "./satterthwaite";
+export { linearCombinationVariance, pairDifferenceVariance, satterthwaiteDf, type VariancePart } from "./satterthwaite";
 export { compactLetterDisplay } from "./letters";
 export {
   compareTwoMeans,

@@ -4,15 +4,44 @@ function letterName(k: number): string {
   return k < ALPHABET.length ? ALPHABET[k] : `${ALPHABET[k % ALPHABET.length]}${Math.floor(k / ALPHABET.length)}`;
 }
 
-function isSubset(a: ReadonlySet<number>, b: ReadonlySet<number>): boolean {
-  for (const x of a) if (!b.has(x)) return false;
+/**
+ * A letter's set of means as a bitset (32 means per word): the algorithm splits and compares
+ * sets once per significant pair, thousands of times for a many-treatment trial.
+ */
+type MeanBits = Uint32Array;
+
+const has = (set: MeanBits, i: number) => (set[i >>> 5] & (1 << (i & 31))) !== 0;
+
+function without(set: MeanBits, i: number): MeanBits {
+  const copy = set.slice();
+  copy[i >>> 5] &= ~(1 << (i & 31));
+  return copy;
+}
+
+function members(set: MeanBits, k: number): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < k; i++) if (has(set, i)) out.push(i);
+  return out;
+}
+
+function size(set: MeanBits): number {
+  let count = 0;
+  for (let word of set) {
+    for (; word !== 0; count++) word &= word - 1;
+  }
+  return count;
+}
+
+function isSubset(a: MeanBits, b: MeanBits): boolean {
+  for (let w = 0; w < a.length; w++) if ((a[w] & ~b[w]) !== 0) return false;
   return true;
 }
 
 /** Drops every column contained in another (keeping one of two equal columns). */
-function absorb(columns: Set<number>[]): Set<number>[] {
+function absorb(columns: MeanBits[]): MeanBits[] {
+  const sizes = columns.map(size);
   return columns.filter(
-    (col, k) => !columns.some((other, m) => m !== k && isSubset(col, other) && (col.size < other.size || m < k)),
+    (col, k) => !columns.some((other, m) => m !== k && isSubset(col, other) && (sizes[k] < sizes[m] || m < k)),
   );
 }
 
@@ -28,17 +57,16 @@ function absorb(columns: Set<number>[]): Set<number>[] {
  */
 export function compactLetterDisplay(means: readonly number[], differs: (i: number, j: number) => boolean): string[] {
   const k = means.length;
-  let columns: Set<number>[] = [new Set(means.map((_, i) => i))];
+  const all: MeanBits = new Uint32Array(Math.max(1, Math.ceil(k / 32)));
+  for (let i = 0; i < k; i++) all[i >>> 5] |= 1 << (i & 31);
+  let columns: MeanBits[] = [all];
   for (let i = 0; i < k; i++) {
     for (let j = i + 1; j < k; j++) {
       if (!differs(i, j)) continue;
-      const next: Set<number>[] = [];
+      const next: MeanBits[] = [];
       for (const col of columns) {
-        if (col.has(i) && col.has(j)) {
-          next.push(new Set([...col].filter((x) => x !== i)), new Set([...col].filter((x) => x !== j)));
-        } else {
-          next.push(col);
-        }
+        if (has(col, i) && has(col, j)) next.push(without(col, i), without(col, j));
+        else next.push(col);
       }
       columns = absorb(next);
     }
@@ -47,20 +75,20 @@ export function compactLetterDisplay(means: readonly number[], differs: (i: numb
   // Sweep: remove mean i from a letter if every mean sharing that letter also shares another with i,
   // and i keeps at least one letter.
   for (const col of columns) {
-    for (const i of [...col]) {
-      const others = columns.filter((c) => c !== col && c.has(i));
+    for (const i of members(col, k)) {
+      const others = columns.filter((c) => c !== col && has(c, i));
       if (others.length === 0) continue;
-      const covered = [...col].every((j) => j === i || others.some((c) => c.has(j)));
-      if (covered) col.delete(i);
+      const covered = members(col, k).every((j) => j === i || others.some((c) => has(c, j)));
+      if (covered) col[i >>> 5] &= ~(1 << (i & 31));
     }
   }
-  columns = absorb(columns.filter((c) => c.size > 0));
+  columns = absorb(columns.filter((c) => size(c) > 0));
 
   // 'a' for the letter holding the highest mean, then by the next-highest mean each letter holds.
   const rank = means.map((_, i) => i).sort((a, b) => means[b] - means[a] || a - b);
   const position = new Map(rank.map((idx, pos) => [idx, pos]));
   const ordered = columns
-    .map((col) => [...col].map((i) => position.get(i)!).sort((a, b) => a - b))
+    .map((col) => members(col, k).map((i) => position.get(i)!).sort((a, b) => a - b))
     .sort((a, b) => {
       for (let m = 0; m < Math.min(a.length, b.length); m++) if (a[m] !== b[m]) return a[m] - b[m];
       return a.length - b.length;

@@ -32,9 +32,21 @@ export interface LinearModelFit {
   leastSquares?: { design: DesignMatrix; fit: LeastSquaresFit };
 }
 
-/** Key of an observation's level combination for a set of factors. */
-function cellKey(data: ModelData, factors: readonly string[], obs: number): string {
-  return factors.map((f) => data.factors[f].codes[obs]).join(",");
+/**
+ * Cell index of every observation for a set of factors: the mixed-radix number of its level
+ * codes (first factor slowest), and the number of cells. Integer keys keep large balanced
+ * analyses fast.
+ */
+function cellIndices(data: ModelData, factors: readonly string[]): { index: Int32Array; cells: number } {
+  const n = data.y.length;
+  const index = new Int32Array(n);
+  let cells = 1;
+  for (const f of factors) {
+    const { codes, levels } = data.factors[f];
+    for (let obs = 0; obs < n; obs++) index[obs] = index[obs] * levels.length + codes[obs];
+    cells *= levels.length;
+  }
+  return { index, cells };
 }
 
 /**
@@ -46,34 +58,28 @@ export function isBalanced(data: ModelData, terms: readonly Term[]): boolean {
   if (data.y.some((v) => !Number.isFinite(v))) return false;
   const names = [...new Set(terms.flatMap(termFactors))];
   if (names.some((name) => !data.factors[name])) return false;
-  const cells = names.reduce((c, name) => c * data.factors[name].levels.length, 1);
-  const counts = new Map<string, number>();
-  data.y.forEach((_, obs) => {
-    const key = cellKey(data, names, obs);
-    counts.set(key, (counts.get(key) ?? 0) + 1);
-  });
-  if (counts.size !== cells) return false;
-  const first = counts.values().next().value;
-  return [...counts.values()].every((c) => c === first);
+  const { index, cells } = cellIndices(data, names);
+  const counts = new Int32Array(cells);
+  for (const cell of index) counts[cell] += 1;
+  return counts.every((c) => c > 0 && c === counts[0]);
 }
 
 function allSubsets<T>(items: readonly T[]): T[][] {
   return items.reduce<T[][]>((subsets, item) => subsets.concat(subsets.map((s) => [...s, item])), [[]]);
 }
 
-/** Marginal means of y over every subset of the given factors, keyed by subset then cell. */
-function marginalMeans(data: ModelData, factors: readonly string[]): Map<string, Map<string, number>> {
-  const out = new Map<string, Map<string, number>>();
+/** Marginal means of y over every subset of the given factors: per subset, each observation's cell and the cell means. */
+function marginalMeans(data: ModelData, factors: readonly string[]): Map<string, { index: Int32Array; means: Float64Array }> {
+  const out = new Map<string, { index: Int32Array; means: Float64Array }>();
   for (const subset of allSubsets(factors)) {
-    const sums = new Map<string, { sum: number; count: number }>();
+    const { index, cells } = cellIndices(data, subset);
+    const sums = new Float64Array(cells);
+    const counts = new Float64Array(cells);
     data.y.forEach((v, obs) => {
-      const key = cellKey(data, subset, obs);
-      const cell = sums.get(key) ?? { sum: 0, count: 0 };
-      cell.sum += v;
-      cell.count += 1;
-      sums.set(key, cell);
+      sums[index[obs]] += v;
+      counts[index[obs]] += 1;
     });
-    out.set(subset.join(":"), new Map([...sums].map(([k, c]) => [k, c.sum / c.count])));
+    out.set(subset.join(":"), { index, means: sums.map((sum, c) => sum / counts[c]) });
   }
   return out;
 }
@@ -88,7 +94,7 @@ export function closedFormFit(data: ModelData, terms: readonly Term[]): Omit<Lin
   const n = data.y.length;
   const names = [...new Set(terms.flatMap(termFactors))];
   const means = marginalMeans(data, names);
-  const grand = means.get("")!.get("")!;
+  const grand = means.get("")!.means[0];
   const fitted = new Array<number>(n).fill(grand);
   const termSums = terms.map((term) => {
     let ss = 0;
@@ -96,13 +102,13 @@ export function closedFormFit(data: ModelData, terms: readonly Term[]): Omit<Lin
     for (const part of term.parts) {
       const ordered = names.filter((f) => part.includes(f));
       df += ordered.reduce((d, f) => d * (data.factors[f].levels.length - 1), 1);
-      const subsets = allSubsets(ordered);
+      const subsets = allSubsets(ordered).map((s) => ({
+        sign: (ordered.length - s.length) % 2 === 0 ? 1 : -1,
+        ...means.get(s.join(":"))!,
+      }));
       for (let obs = 0; obs < n; obs++) {
         let effect = 0;
-        for (const s of subsets) {
-          const sign = (ordered.length - s.length) % 2 === 0 ? 1 : -1;
-          effect += sign * means.get(s.join(":"))!.get(cellKey(data, s, obs))!;
-        }
+        for (const { sign, index, means: cellMeans } of subsets) effect += sign * cellMeans[index[obs]];
         ss += effect * effect;
         fitted[obs] += effect;
       }
@@ -248,7 +254,11 @@ export function leastSquaresMeans(fit: LinearModelFit, factors: readonly string[
 
   if (fit.method === "closed-form") {
     const means = sums.map((sum, c) => sum / n[c]);
-    const unscaledCovariance = combos.map((_, i) => combos.map((__, j) => (i === j ? 1 / n[i] : 0)));
+    const unscaledCovariance = combos.map((_, i) => {
+      const row = new Array<number>(combos.length).fill(0);
+      row[i] = 1 / n[i];
+      return row;
+    });
     return { factors: [...factors], levels, means, n, unscaledCovariance };
   }
 

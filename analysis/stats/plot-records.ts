@@ -41,21 +41,28 @@ export function levelsOf(plots: readonly LeveledPlot[], name: string): string[] 
  * duplicate found: "block 3 has no plot for treatment T2".
  */
 export function checkComplete(plots: readonly LeveledPlot[], names: readonly string[], replicated = false): void {
-  const counts = new Map<string, number>();
+  const levels = names.map((n) => levelsOf(plots, n));
+  const position = levels.map((ls) => new Map(ls.map((l, i) => [l, i])));
+  // Combination index: mixed-radix number of the level positions, first factor slowest.
+  const combinations = levels.reduce((c, ls) => c * ls.length, 1);
+  const counts = new Int32Array(combinations);
   for (const p of plots) {
-    const key = JSON.stringify(names.map((n) => p.levels[n]));
-    counts.set(key, (counts.get(key) ?? 0) + 1);
+    let index = 0;
+    names.forEach((n, k) => (index = index * levels[k].length + position[k].get(p.levels[n])!));
+    counts[index] += 1;
   }
-  const combos = names.reduce<string[][]>(
-    (acc, name) => acc.flatMap((c) => levelsOf(plots, name).map((l) => [...c, l])),
-    [[]],
-  );
-  for (const combo of combos) {
-    const count = counts.get(JSON.stringify(combo)) ?? 0;
+  for (let index = 0; index < combinations; index++) {
+    const count = counts[index];
+    if (count === 1 || (replicated && count > 1)) continue;
+    const combo: string[] = [];
+    for (let k = names.length - 1, remainder = index; k >= 0; k--) {
+      combo[k] = levels[k][remainder % levels[k].length];
+      remainder = Math.floor(remainder / levels[k].length);
+    }
     const [first, ...rest] = names.map((n, k) => `${n} ${combo[k]}`);
     const what = rest.length ? ` for ${rest.join(", ")}` : "";
     if (count === 0) throw new Error(`${first} has no plot${what} (give the plot with an empty value if it was lost)`);
-    if (!replicated && count > 1) throw new Error(`${first} has ${count} plots${what}; expected one`);
+    throw new Error(`${first} has ${count} plots${what}; expected one`);
   }
 }
 
@@ -67,10 +74,9 @@ export function checkLevelCount(plots: readonly LeveledPlot[], name: string, min
 
 /** Throws when some level of a factor has no observed (non-missing) value. */
 export function checkObservedLevels(plots: readonly LeveledPlot[], name: string): void {
+  const observed = new Set(plots.filter((p) => p.value !== null).map((p) => p.levels[name]));
   for (const level of levelsOf(plots, name)) {
-    if (!plots.some((p) => p.levels[name] === level && p.value !== null)) {
-      throw new Error(`${name} ${level} has no observed value`);
-    }
+    if (!observed.has(level)) throw new Error(`${name} ${level} has no observed value`);
   }
 }
 

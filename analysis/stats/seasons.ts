@@ -72,7 +72,8 @@ function wholePlotNames(layout: SeasonLayout): string[] {
 /** Every whole plot × season without a value, whole plots in order of first appearance. */
 export function missingPlotSeasons(plots: readonly LeveledPlot[], layout: SeasonLayout): MissingPlotSeason[] {
   const names = wholePlotNames(layout);
-  const key = (p: LeveledPlot) => JSON.stringify(names.map((n) => p.levels[n]));
+  const keys = new Map(plots.map((p) => [p, JSON.stringify(names.map((n) => p.levels[n]))]));
+  const key = (p: LeveledPlot) => keys.get(p)!;
   const present = new Set(plots.filter((p) => p.value !== null).map((p) => `${key(p)}|${p.levels[layout.season]}`));
   const wholePlots = new Map<string, Record<string, string>>();
   for (const p of plots) if (!wholePlots.has(key(p))) wholePlots.set(key(p), Object.fromEntries(names.map((n) => [n, p.levels[n]])));
@@ -132,12 +133,17 @@ function meanBy<T>(items: readonly T[], key: (item: T) => string, value: (item: 
  */
 export function withinPlotSeasonCovariance(plots: readonly LeveledPlot[], layout: SeasonLayout): number[][] {
   const names = wholePlotNames(layout);
-  const plotKey = (p: LeveledPlot) => JSON.stringify(names.map((n) => p.levels[n]));
-  const treatmentKey = (p: LeveledPlot) => JSON.stringify(layout.treatments.map((f) => p.levels[f]));
+  // Keys computed once per plot: this runs on every row of a many-season trial.
+  const plotKeys = new Map(plots.map((p) => [p, JSON.stringify(names.map((n) => p.levels[n]))]));
+  const treatmentKeys = new Map(plots.map((p) => [p, JSON.stringify(layout.treatments.map((f) => p.levels[f]))]));
+  const plotKey = (p: LeveledPlot) => plotKeys.get(p)!;
+  const treatmentKey = (p: LeveledPlot) => treatmentKeys.get(p)!;
   const seasons = levelsOf(plots, layout.season);
+  const bySeason = new Map<string, LeveledPlot[]>(seasons.map((season) => [season, []]));
+  for (const p of plots) bySeason.get(p.levels[layout.season])!.push(p);
   const residuals = new Map<string, number[]>();
   for (const [si, season] of seasons.entries()) {
-    const inSeason = plots.filter((p) => p.levels[layout.season] === season);
+    const inSeason = bySeason.get(season)!;
     const value = (p: LeveledPlot) => p.value as number;
     const grand = inSeason.reduce((s, p) => s + value(p), 0) / inSeason.length;
     const tMean = meanBy(inSeason, treatmentKey, value);
@@ -148,7 +154,7 @@ export function withinPlotSeasonCovariance(plots: readonly LeveledPlot[], layout
       residuals.set(plotKey(p), r);
     }
   }
-  const treatmentCount = new Set(plots.map(treatmentKey)).size;
+  const treatmentCount = new Set(treatmentKeys.values()).size;
   const blockDf = layout.block ? levelsOf(plots, layout.block).length - 1 : 0;
   const df = residuals.size - treatmentCount - blockDf;
   const all = [...residuals.values()];

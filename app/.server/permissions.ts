@@ -2,6 +2,7 @@
 import { and, eq } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { roleCan, type Permission, type Role } from "~/permissions";
+import { userForApiKey } from "./api-keys";
 import { db, schema } from "./db";
 import { getSession, type SessionUser } from "./session";
 
@@ -37,8 +38,17 @@ export function notFound(request: Request, message: string): never {
   throw data(isApiRequest(request) ? { error: message } : message, { status: 404 });
 }
 
-/** Signed-in user or 401. For pages that belong to no program (home, account). */
+/**
+ * Signed-in user or 401. For pages that belong to no program (home, account). JSON routes under
+ * /api/ also accept an `x-api-key` header, which acts with its owner's memberships and roles.
+ */
 export async function requireUser(request: Request): Promise<SessionUser> {
+  const apiKey = request.headers.get("x-api-key");
+  if (apiKey && isApiRequest(request)) {
+    const user = await userForApiKey(apiKey);
+    if (!user) throw data({ error: "This API key is not valid or was revoked." }, { status: 401 });
+    return user;
+  }
   const session = await getSession(request);
   if (!session) unauthorized(request);
   return session.user;

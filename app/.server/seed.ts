@@ -16,6 +16,7 @@ import {
 } from "../../datasets/demo/scenario";
 import { recordAudit } from "./audit";
 import { db, schema } from "./db";
+import { seedDemoMeasurements } from "./intake/demo";
 
 export async function isEmpty(): Promise<boolean> {
   const [row] = await db.select({ n: count() }).from(schema.users);
@@ -24,7 +25,7 @@ export async function isEmpty(): Promise<boolean> {
 
 export async function seedDemo() {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
-  return db.transaction(async (tx) => {
+  const written = await db.transaction(async (tx) => {
     const programId = randomUUID();
     await tx.insert(schema.programs).values({ id: programId, ...demoProgram });
     const userIds: Record<string, string> = {};
@@ -91,4 +92,12 @@ export async function seedDemo() {
     );
     return { programId, trialId: trial.id, userIds };
   });
+  // Lab results go in afterwards through lab intake's own code path (datasets/demo/measurements.ts).
+  await seedDemoMeasurements({
+    programId: written.programId,
+    trialId: written.trialId,
+    technicianId: written.userIds.technician,
+    researcherId: written.userIds.researcher,
+  });
+  return written;
 }

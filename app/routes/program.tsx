@@ -1,5 +1,6 @@
 import { Link, useLoaderData } from "react-router";
 import { requirePermission } from "~/.server/permissions";
+import { listBriefs } from "~/.server/briefs";
 import { listMembers } from "~/.server/programs";
 import { listSites, listTrials } from "~/.server/trials";
 import { buttonClass } from "~/components/form";
@@ -15,7 +16,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const [trials, sites, members] = canSeeData
     ? await Promise.all([listTrials(member.programId), listSites(member.programId), listMembers(member.programId)])
     : [[], [], []];
+  const briefs = await listBriefs({ programId: member.programId });
   return {
+    briefs: briefs.map((b) => ({ ...b, publishedAt: b.publishedAt.toISOString() })),
     program: { id: member.programId, name: member.programName },
     role: member.role,
     canSeeData,
@@ -27,7 +30,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export default function ProgramPage() {
-  const { program, role, canSeeData, canManageMembers, trials, sites, memberCount } = useLoaderData<typeof loader>();
+  const { program, role, canSeeData, canManageMembers, trials, sites, memberCount, briefs } = useLoaderData<typeof loader>();
   return (
     <>
       <PageHeader
@@ -39,16 +42,37 @@ export default function ProgramPage() {
           </>
         }
         actions={
-          canManageMembers && (
-            <Link to={`/programs/${program.id}/members`} className={buttonClass("secondary")}>
-              Members ({memberCount})
-            </Link>
-          )
+          <>
+            {canSeeData && (
+              <>
+                <Link to={`/programs/${program.id}/sites`} className={buttonClass("secondary")}>
+                  Sites
+                </Link>
+                <Link to={`/programs/${program.id}/amendments`} className={buttonClass("secondary")}>
+                  Amendments
+                </Link>
+              </>
+            )}
+            {canManageMembers && (
+              <Link to={`/programs/${program.id}/members`} className={buttonClass("secondary")}>
+                Members ({memberCount})
+              </Link>
+            )}
+          </>
         }
       />
       {canSeeData ? (
         <>
-          <Section title="Trials">
+          <Section
+            title="Trials"
+            aside={
+              roleCan(role, "trials.edit") && (
+                <Link to={`/programs/${program.id}/trials/new`} className={buttonClass("primary")}>
+                  New trial
+                </Link>
+              )
+            }
+          >
             {trials.length === 0 ? (
               <Empty>No trials yet.</Empty>
             ) : (
@@ -93,14 +117,28 @@ export default function ProgramPage() {
             )}
           </Section>
         </>
-      ) : (
-        <Section title="Field briefs">
+      ) : null}
+      <Section title="Field briefs">
+        {briefs.length === 0 ? (
           <Empty>
             No field briefs have been published in this program yet. When researchers publish one, it appears here with its
-            summary table and cautions, ready to download.
+            summary table and cautions, ready to read, print and download.
           </Empty>
-        </Section>
-      )}
+        ) : (
+          <ul className="divide-y divide-loam-200 rounded-lg border border-loam-200 bg-white">
+            {briefs.map((b) => (
+              <li key={b.id} className="px-4 py-3">
+                <Link to={`/briefs/${b.id}`} className="font-medium">
+                  {b.title}
+                </Link>
+                <p className="text-sm text-loam-700">
+                  {b.trialTitle} · version {b.version}, {b.publishedAt.slice(0, 10)} · {b.authors}
+                </p>
+              </li>
+            ))}
+          </ul>
+        )}
+      </Section>
     </>
   );
 }

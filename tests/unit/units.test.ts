@@ -154,3 +154,12 @@ describe("somWaterHoldingEstimate", () => {
     expect(() => somWaterHoldingEstimate(1, 0)).toThrow(/more than 0 cm/);
   });
 });
+
+describe("water per area", () => {
+  it("converts US gallons per acre to cubic metres per hectare", async () => {
+    const { usGallonsPerAcreToCubicMetresPerHa } = await import("../../analysis/units");
+    // 1 US gal = 3.785411784 L and 1 acre = 4046.8564224 m² (NIST Handbook 44, exact):
+    // 1 US gal/acre = 3.785411784e-3 m³ × 10 000 / 4046.8564224 = 0.0093540 m³/ha.
+    expect(usGallonsPerAcreToCubicMetresPerHa(1)).toBeCloseTo(0.009354, 6);
+  });
+});

@@ -6,6 +6,9 @@ import * as schema from "./schema";
 export const pool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 10 });
 // A dropped connection (e.g. the database restarting) must not crash the server.
 pool.on("error", (error) => console.error("[db] idle client error:", error.message));
+// A connection killed mid-transaction rejects its query (the transaction rolls back); the client's
+// own error event must not become an uncaught exception either.
+pool.on("connect", (client) => client.on("error", (error) => console.error("[db] connection error:", error.message)));
 
 export const db = drizzle(pool, { schema });
 export type Db = typeof db;

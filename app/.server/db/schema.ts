@@ -444,3 +444,79 @@ export const referenceMasses = pgTable(
   },
   (t) => [uniqueIndex("reference_mass_span_idx").on(t.trialId, t.topCm, t.bottomCm)],
 );
+
+/** Named contrasts a researcher saves for a trial: one coefficient per treatment code. */
+export const contrasts = pgTable(
+  "contrast",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    coefficients: jsonb("coefficients").$type<Record<string, number>>().notNull(),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("contrast_trial_name_idx").on(t.trialId, t.name)],
+);
+
+/** Keys for scripts calling the JSON routes. Only a SHA-256 of the key is kept; it is shown once. */
+export const apiKeys = pgTable(
+  "api_key",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** The first characters, to tell keys apart in lists. */
+    prefix: text("prefix").notNull(),
+    keyHash: text("key_hash").notNull().unique(),
+    createdAt: createdAt(),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  },
+  (t) => [index("api_key_user_idx").on(t.userId)],
+);
+
+/** A field brief: a citable summary series for one trial; each publication is a frozen version. */
+export const briefs = pgTable(
+  "brief",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    programId: programRef(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "restrict" }),
+    title: text("title").notNull(),
+    /** Readable by anyone with the link, without signing in (page and CSV). */
+    isPublic: boolean("is_public").notNull().default(false),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("brief_program_idx").on(t.programId)],
+);
+
+/** One published version: its numbers, chart data and text are stored and never recomputed. */
+export const briefVersions = pgTable(
+  "brief_version",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    briefId: uuid("brief_id")
+      .notNull()
+      .references(() => briefs.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    title: text("title").notNull(),
+    summary: text("summary").notNull(),
+    context: text("context"),
+    authors: text("authors").notNull(),
+    /** The frozen summary tables, chart data and selection, exactly as published. */
+    content: jsonb("content").$type<Record<string, unknown>>().notNull(),
+    includeWater: boolean("include_water").notNull().default(false),
+    dataVersion: integer("data_version").notNull(),
+    publishedBy: text("published_by").references(() => users.id, { onDelete: "set null" }),
+    publishedAt: timestamp("published_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("brief_version_idx").on(t.briefId, t.version)],
+);

@@ -138,4 +138,46 @@ describe("socStockEsmMgPerHa", () => {
     const stony = worked.map((d, i) => (i === 1 ? { ...d, bdFineGPerCm3: 0 } : d));
     expect(() => socStockEsmMgPerHa(stony, 1000)).toThrow(/10–20 cm has no fine-earth mass/);
   });
+
+  it("uniform compression: the ESM stock stays, the fixed-depth stock changes (issue 5 check)", () => {
+    // The same soil before and after being compressed by 1.5 (e.g. by traffic): carbon per unit
+    // mass is 2 % for the first 3000 Mg/ha of fine earth and 1 % below, in both cores.
+    // Loose: BD 1.0, six 10-cm increments → cumulative mass 1000 … 6000 Mg/ha.
+    const loose: CoreIncrement[] = [0, 10, 20, 30, 40, 50].map((top) => ({
+      topCm: top,
+      bottomCm: top + 10,
+      bdFineGPerCm3: 1.0,
+      socPercent: top < 30 ? 2 : 1,
+    }));
+    // Compressed: BD 1.5, three 10-cm increments → 1500, 3000, 4500 Mg/ha, at the same 2 % / 1 %.
+    const compressed: CoreIncrement[] = [0, 10, 20].map((top) => ({
+      topCm: top,
+      bottomCm: top + 10,
+      bdFineGPerCm3: 1.5,
+      socPercent: top < 20 ? 2 : 1,
+    }));
+    const reference = esmReferenceMassMgPerHa([loose, compressed]);
+    expect(reference).toBeCloseTo(4500, 9); // hand calculation: min(6000, 1.5 × 10 × 100 × 3) = 4500 Mg/ha
+    // Hand calculation, both cores: 3000 Mg/ha × 2 % + 1500 Mg/ha × 1 % = 60 + 15 = 75 Mg C/ha.
+    // (The kink of C(M) at 3000 Mg/ha is a knot of both cores, so linear interpolation is exact.)
+    expect(socStockEsmMgPerHa(loose, reference)).toBeCloseTo(75, 10);
+    expect(socStockEsmMgPerHa(compressed, reference)).toBeCloseTo(75, 10);
+    // Fixed depth 0–30 cm, hand calculation: loose 3 × 2 % × 1.0 × 10 = 60; compressed 2 × 2 % × 1.5 × 10 + 1 % × 1.5 × 10 = 75.
+    const fixed30 = (core: CoreIncrement[]) => cumulativeSocProfile(core).find((r) => r.bottomCm === 30)!.cumulativeSocStockMgPerHa;
+    expect(fixed30(loose)).toBeCloseTo(60, 10);
+    expect(fixed30(compressed)).toBeCloseTo(75, 10);
+  });
+
+  it("uniform compression with SOC uniform by mass: linear and cubic ESM both unchanged", () => {
+    // 1.2 % by mass throughout; compression by 1.3 raises BD 1.1 → 1.43. Hand calculation at the
+    // reference mass 3300 Mg/ha (the loose core's 0–30 cm): 1.2 % × 3300 = 39.6 Mg C/ha.
+    const core = (bd: number): CoreIncrement[] =>
+      [0, 10, 20].map((top) => ({ topCm: top, bottomCm: top + 10, bdFineGPerCm3: bd, socPercent: 1.2 }));
+    for (const interpolation of ["linear", "cubic"] as const) {
+      expect(socStockEsmMgPerHa(core(1.1), 3300, { interpolation })).toBeCloseTo(39.6, 9);
+      expect(socStockEsmMgPerHa(core(1.43), 3300, { interpolation })).toBeCloseTo(39.6, 9);
+    }
+    // Fixed depth 0–30 cm changes by the compression factor: 39.6 → 1.2 × 1.43 × 30 = 51.48 Mg C/ha.
+    expect(cumulativeSocProfile(core(1.43)).at(-1)!.cumulativeSocStockMgPerHa).toBeCloseTo(51.48, 9);
+  });
 });

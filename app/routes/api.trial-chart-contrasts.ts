@@ -1,0 +1,8 @@
+import { chartResponse } from "~/.server/results/chart-route";
+import { contrastsChart } from "~/.server/results/charts";
+import type { Route } from "./+types/api.trial-chart-contrasts";
+
+/** The saved contrasts' estimates with confidence intervals in the selected analysis (shape: `ContrastsChart`). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  return chartResponse(request, params.trialId, (query) => contrastsChart(params.trialId, query));
+}

@@ -1,0 +1,8 @@
+import { chartResponse } from "~/.server/results/chart-route";
+import { diagnosticsChart } from "~/.server/results/charts";
+import type { Route } from "./+types/api.trial-chart-diagnostics";
+
+/** Residuals vs fitted and normal Q–Q of the per-season ANOVA (shape: `DiagnosticsChart`). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  return chartResponse(request, params.trialId, (query) => diagnosticsChart(params.trialId, query));
+}

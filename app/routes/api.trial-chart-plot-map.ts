@@ -1,0 +1,16 @@
+import { chartResponse } from "~/.server/results/chart-route";
+import { plotMapChart } from "~/.server/results/charts";
+import { ResultsError } from "~/.server/results/service";
+import type { Route } from "./+types/api.trial-chart-plot-map";
+
+/**
+ * The plot map coloured by value (`show=values`, the default) or by residual from the per-season
+ * ANOVA (`show=residuals`) (shape: `PlotMapChart`).
+ */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  return chartResponse(request, params.trialId, (query, url) => {
+    const show = url.searchParams.get("show") || "values";
+    if (show !== "values" && show !== "residuals") throw new ResultsError("show is values or residuals.");
+    return plotMapChart(params.trialId, query, show);
+  });
+}

@@ -1,0 +1,67 @@
+// A researcher publishes a field brief; an extension agent reads, prints and downloads it.
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { launchBrowser, latestMailLink, screenshot, signIn } from "../support/browser";
+
+const baseUrl = inject("baseUrl");
+let browser: Browser;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function newPage(width = 1280): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width, height: 900 }, acceptDownloads: true });
+  return context.newPage();
+}
+
+const heading = (page: Page) => page.getByRole("heading", { level: 1 }).innerText();
+
+describe("field briefs", () => {
+  let briefUrl = "";
+
+  it("a researcher drafts and publishes a brief from the current results", async () => {
+    const page = await newPage();
+    await signIn(page, baseUrl, "researcher@cedarhollow.example");
+    await page.locator('a[href^="/trials/"]').first().click();
+    await page.getByRole("link", { name: "Field briefs" }).click();
+    await page.getByRole("button", { name: "Draft" }).click();
+    await page.getByRole("button", { name: "Publish field brief" }).waitFor();
+    await screenshot(page, "brief-draft");
+    await page.getByLabel("Title").fill("Compost and soil organic matter at Cedar Hollow");
+    await page.getByRole("button", { name: "Publish field brief" }).click();
+    await page.waitForURL(/\/briefs\/[0-9a-f-]+\/v\/1$/);
+    briefUrl = page.url();
+    await expect.poll(() => heading(page), { timeout: 15_000 }).toBe("Compost and soil organic matter at Cedar Hollow");
+    expect(await page.locator("table").count()).toBeGreaterThan(0);
+    await page.locator("figure svg").first().waitFor();
+    await screenshot(page, "brief");
+    await page.context().close();
+  });
+
+  it("an extension agent is told by e-mail, reads it in US units and downloads the table", async () => {
+    const page = await newPage();
+    const link = await latestMailLink(page, baseUrl, "extension@cedarhollow.example", "/briefs/");
+    await signIn(page, baseUrl, "extension@cedarhollow.example");
+    await page.goto(link);
+    await expect.poll(() => heading(page), { timeout: 15_000 }).toBe("Compost and soil organic matter at Cedar Hollow");
+    await page.getByRole("link", { name: "US customary" }).click();
+    await page.waitForURL(/units=us/);
+    const download = page.waitForEvent("download");
+    await page.getByRole("link", { name: "Summary table (CSV)" }).click();
+    const file = await download;
+    expect(file.suggestedFilename()).toMatch(/^field-brief-.*-v1\.csv$/);
+    await screenshot(page, "brief-extension");
+    await page.context().close();
+  });
+
+  it("stays closed to signed-out visitors while private", async () => {
+    const page = await newPage(390);
+    await page.goto(briefUrl);
+    expect(page.url()).toContain("/sign-in?redirectTo=");
+    await page.context().close();
+  });
+});
