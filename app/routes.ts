@@ -26,11 +26,13 @@ export default [
     route("programs/:programId/amendments/:amendmentId", "routes/program.amendment.tsx"),
     route("programs/:programId/amendments/:amendmentId/batches/:batchId", "routes/program.batch.tsx"),
     route("programs/:programId/blend-calculator", "routes/program.blend.tsx"),
+    route("programs/:programId/lab", "routes/program.lab.tsx"),
     route("trials/:trialId", "routes/trial-layout.tsx", [
       index("routes/trial.overview.tsx"),
       route("results", "routes/trial.results.tsx"),
       route("results/contrasts", "routes/trial.results.contrasts.tsx"),
       route("briefs", "routes/trial.briefs.tsx"),
+      route("lab-method", "routes/trial.lab-method.tsx"),
       route("setup", "routes/trial.setup.tsx"),
       route("treatments", "routes/trial.treatments.tsx"),
       route("randomization", "routes/trial.randomization.tsx"),

@@ -12,6 +12,7 @@ export const TRIAL_TABS: { path: string; label: string; permission: Permission }
   { path: "randomization", label: "Randomization", permission: "trials.edit" },
   { path: "plot-map", label: "Plot map", permission: "results.view" },
   { path: "application-sheet", label: "Application sheet", permission: "results.view" },
+  { path: "lab-method", label: "Lab method", permission: "trials.edit" },
   { path: "sampling", label: "Sampling", permission: "samples.edit" },
   { path: "intake", label: "Lab intake", permission: "measurements.upload" },
   { path: "data", label: "Data", permission: "results.view" },

@@ -51,6 +51,9 @@ export default function ProgramPage() {
                 <Link to={`/programs/${program.id}/amendments`} className={buttonClass("secondary")}>
                   Amendments
                 </Link>
+                <Link to={`/programs/${program.id}/lab`} className={buttonClass("secondary")}>
+                  Lab methods
+                </Link>
               </>
             )}
             {canManageMembers && (
