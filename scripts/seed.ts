@@ -9,7 +9,7 @@ try {
     if (ifEmpty) console.error("[seed] database already has accounts; leaving it as it is");
     else throw new Error("The database already has accounts; seed only an empty database.");
   } else {
-    const { trialId } = await seedDemo();
+    const { trialId } = await seedDemo({ withBrief: true });
     console.error(`[seed] demo program written (trial ${trialId})`);
   }
 } finally {

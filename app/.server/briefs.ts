@@ -126,6 +126,8 @@ export type PublishInput = {
   isPublic: boolean;
   includeWater: boolean;
   selection: BriefSelection;
+  /** E-mail the program's extension agents (default true). */
+  notify?: boolean;
 };
 
 /**
@@ -171,9 +173,11 @@ export async function publishBrief(actor: { id: string; programId: string }, tri
     );
     return { briefId, version };
   });
-  await notifyExtensionAgents(actor.programId, published.briefId, input.title).catch((error: Error) =>
-    console.error("[briefs] notification failed:", error.message),
-  );
+  if (input.notify !== false) {
+    await notifyExtensionAgents(actor.programId, published.briefId, input.title).catch((error: Error) =>
+      console.error("[briefs] notification failed:", error.message),
+    );
+  }
   return published;
 }
 

@@ -6,6 +6,7 @@ import { rcbdLayout } from "../../analysis/design";
 import {
   DEMO_PASSWORD,
   demoAmendments,
+  demoBrief,
   demoApplications,
   demoLayoutSeed,
   demoProgram,
@@ -15,6 +16,7 @@ import {
   demoUsers,
 } from "../../datasets/demo/scenario";
 import { recordAudit } from "./audit";
+import { publishBrief } from "./briefs";
 import { db, schema } from "./db";
 import { seedDemoMeasurements } from "./intake/demo";
 
@@ -23,7 +25,7 @@ export async function isEmpty(): Promise<boolean> {
   return row.n === 0;
 }
 
-export async function seedDemo() {
+export async function seedDemo(options: { withBrief?: boolean } = {}) {
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const written = await db.transaction(async (tx) => {
     const programId = randomUUID();
@@ -99,5 +101,13 @@ export async function seedDemo() {
     technicianId: written.userIds.technician,
     researcherId: written.userIds.researcher,
   });
+  if (options.withBrief) {
+    // A first field brief, so extension agents find something to read in the demo.
+    await publishBrief({ id: written.userIds.researcher, programId: written.programId }, written.trialId, {
+      ...demoBrief,
+      briefId: null,
+      notify: false,
+    });
+  }
   return written;
 }

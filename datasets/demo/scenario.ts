@@ -108,3 +108,18 @@ export const demoApplications: Record<string, { batch: string; rateMgDmPerHa?: n
   ],
   T6: [{ batch: "CM-2025-A", rateMgDmPerHa: 15, timing: "each_season" }],
 };
+
+/** The demo's first field brief (its numbers are computed from the demo data when seeded). */
+export const demoBrief = {
+  title: "Compost raised soil organic matter in the top 10 cm at Cedar Hollow",
+  summary:
+    "After five seasons of applications on a degraded silt loam, yard-waste compost — alone or with a compost-extract drench — " +
+    "raised soil organic matter in the top 10 cm the most compared with untreated plots. The drench added nothing measurable " +
+    "beyond compost alone. Leaf mould with coffee grounds, sheet mulch and cattle manure gave smaller gains.",
+  context:
+    "North Field, Cedar Hollow silt loam (eroded phase); six treatments in four blocks; compost at 20 Mg dry matter per hectare each spring. Invented demo data.",
+  authors: "T. Reyes and R. Alder",
+  isPublic: true,
+  includeWater: true,
+  selection: { variables: ["som", "soc_stock"], depth: "0-10", method: "tukey" as const, alpha: 0.05 },
+};
