@@ -4,7 +4,7 @@ import { formatDf, formatNumber, formatP, formatStatistic } from "~/format";
 const th = "px-3 py-2 text-left font-medium";
 const thNum = "px-3 py-2 text-right font-medium";
 const td = "px-3 py-1.5";
-const tdNum = "num px-3 py-1.5 text-right";
+const tdNum = "num px-3 py-1.5 text-right whitespace-nowrap";
 
 const SOURCE_LABELS: Record<string, string> = {
   block: "Block",

@@ -213,7 +213,7 @@ function BriefSectionView({ section, units }: { section: BriefSection; units: Un
                 <td className="num px-2 py-1.5 text-right">
                   {r.vsCheck ? `${show(r.vsCheck.diff)} (${show(r.vsCheck.lower)} to ${show(r.vsCheck.upper)})` : "—"}
                 </td>
-                <td className="num py-1.5 pl-2 text-right">{r.vsCheck ? formatP(r.vsCheck.p) : ""}</td>
+                <td className="num py-1.5 pl-2 text-right whitespace-nowrap">{r.vsCheck ? formatP(r.vsCheck.p) : ""}</td>
               </tr>
             ))}
           </tbody>
