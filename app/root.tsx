@@ -6,8 +6,12 @@ import "@fontsource/ibm-plex-mono/400.css";
 import "@fontsource/ibm-plex-mono/500.css";
 import { isRouteErrorResponse, Link, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { guardRequest } from "./.server/http-guard";
 import "./app.css";
 import { Wordmark } from "./components/wordmark";
+
+// Every request: cross-origin writes refused, security headers, 503 during a database outage, a log line.
+export const middleware: Route.MiddlewareFunction[] = [({ request }, next) => guardRequest(request, next)];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 

@@ -3,6 +3,7 @@ import { and, eq } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { roleCan, type Permission, type Role } from "~/permissions";
 import { userForApiKey } from "./api-keys";
+import { noteUser } from "./request-context";
 import { db, schema } from "./db";
 import { getSession, type SessionUser } from "./session";
 
@@ -47,10 +48,12 @@ export async function requireUser(request: Request): Promise<SessionUser> {
   if (apiKey && isApiRequest(request)) {
     const user = await userForApiKey(apiKey);
     if (!user) throw data({ error: "This API key is not valid or was revoked." }, { status: 401 });
+    noteUser(user.id);
     return user;
   }
   const session = await getSession(request);
   if (!session) unauthorized(request);
+  noteUser(session.user.id);
   return session.user;
 }
 

@@ -155,7 +155,11 @@ function drawPlotMap(data: PlotMapChart, width: number) {
           return scaleLinear<string>().domain([-extent, 0, extent]).range(["#1f6fb2", "#f5f2ec", "#c65a00"]);
         })();
   const fill = (c: Cell) => (c.value === null ? "#cfc8bd" : colour(c.value));
-  const cellHeight = width < 560 ? 52 : 60;
+  const ink = (c: Cell) => inkOn(fill(c));
+  // Two decimals with a real minus sign; a residual that rounds to zero is shown without one.
+  const valueText = (c: Cell) => (c.value === null ? "no value" : formatNumber(c.value, 2).replace(/^−(0\.00)$/, "$1"));
+  const narrow = width < 560;
+  const cellHeight = narrow ? 64 : 60;
   const holder = document.createElement("div");
   const legend = Plot.legend({
     color: { type: "linear", domain: colour.domain(), range: colour.range(), label: data.legendLabel },
@@ -172,23 +176,14 @@ function drawPlotMap(data: PlotMapChart, width: number) {
     y: { domain: [...Array(data.rows).keys()], label: "Field row ↓", tickFormat: (r: number) => String(r + 1) },
     marks: [
       Plot.cell(data.cells, { x: "column", y: "row", fill, inset: 1.5, stroke: (c: Cell) => (c.flagged ? INK : "none"), strokeWidth: 3 }),
-      Plot.text(data.cells, {
-        x: "column",
-        y: "row",
-        text: (c: Cell) => String(c.plotNumber),
-        dy: -8,
-        fontWeight: "bold",
-        fontSize: 12,
-        fill: (c: Cell) => inkOn(fill(c)),
-      }),
-      Plot.text(data.cells, {
-        x: "column",
-        y: "row",
-        text: (c: Cell) => (c.value === null ? `${c.code} · no value` : `${c.code} · ${formatNumber(c.value === 0 ? 0 : c.value, 2).replace(/^−(0\.0+)$/, "$1")}`),
-        dy: 9,
-        fontSize: width < 560 ? 9 : 11,
-        fill: (c: Cell) => inkOn(fill(c)),
-      }),
+      Plot.text(data.cells, { x: "column", y: "row", text: (c: Cell) => String(c.plotNumber), dy: narrow ? -15 : -8, fontWeight: "bold", fontSize: 12, fill: ink }),
+      // On a phone the code and the value get a line each, so they stay inside their cell.
+      ...(narrow
+        ? [
+            Plot.text(data.cells, { x: "column", y: "row", text: "code", dy: 0, fontSize: 10, fill: ink }),
+            Plot.text(data.cells, { x: "column", y: "row", text: (c: Cell) => (c.value === null ? "—" : valueText(c)), dy: 14, fontSize: 10, fill: ink }),
+          ]
+        : [Plot.text(data.cells, { x: "column", y: "row", text: (c: Cell) => `${c.code} · ${valueText(c)}`, dy: 9, fontSize: 11, fill: ink })]),
       Plot.tip(data.cells, Plot.pointer({ x: "column", y: "row", title: (c: Cell) => `Plot ${c.plotNumber} · ${c.code} · block ${c.block}\n${c.value === null ? "no value" : formatNumber(c.value, 4)}` })),
     ],
   });

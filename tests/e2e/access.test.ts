@@ -50,3 +50,32 @@ describe("signed-out access to every route", () => {
     }
   });
 });
+
+describe("web security", () => {
+  it("sends security headers with pages and JSON", async () => {
+    for (const path of ["/", "/api/programs/x/trials"]) {
+      const res = await fetch(`${baseUrl}${path}`, { redirect: "manual" });
+      expect(res.headers.get("x-content-type-options")).toBe("nosniff");
+      expect(res.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");
+      expect(res.headers.get("content-security-policy")).toContain("frame-ancestors 'none'");
+    }
+  });
+
+  it("refuses a form posted from another site and lets the same site through", async () => {
+    const body = new URLSearchParams({ email: "owner@cedarhollow.example", password: "tilthmark-demo" });
+    const forged = await fetch(`${baseUrl}/sign-in`, { method: "POST", body, redirect: "manual", headers: { Origin: "http://evil.example" } });
+    expect(forged.status).toBeGreaterThanOrEqual(400);
+    expect(forged.headers.get("set-cookie")).toBeNull();
+    const own = await fetch(`${baseUrl}/sign-in`, { method: "POST", body, redirect: "manual", headers: { Origin: baseUrl } });
+    expect(own.status).toBe(302);
+    expect(own.headers.get("set-cookie")).toContain("session_token");
+  });
+
+  it("marks the session cookie HttpOnly and SameSite=Lax", async () => {
+    const body = new URLSearchParams({ email: "researcher@cedarhollow.example", password: "tilthmark-demo" });
+    const res = await fetch(`${baseUrl}/sign-in`, { method: "POST", body, redirect: "manual", headers: { Origin: baseUrl } });
+    const cookie = res.headers.getSetCookie().find((c) => c.includes("session_token"))!;
+    expect(cookie).toMatch(/HttpOnly/i);
+    expect(cookie).toMatch(/SameSite=Lax/i);
+  });
+});

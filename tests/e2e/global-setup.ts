@@ -39,6 +39,9 @@ export async function setup(project: TestProject) {
     HOST: "127.0.0.1",
     PORT: String(PORT),
     TILTHMARK_BASE_URL: `http://127.0.0.1:${PORT}`,
+    // Journeys sign the same demo people in many times; the limit itself is tested in integration.
+    RATE_LIMIT_SIGN_IN: "500",
+    TILTHMARK_QUIET_LOGS: "1",
   };
   execFileSync("npx", ["tsx", "scripts/seed.ts"], { env, stdio: "inherit" });
   // Node itself, not npx, so that stopping it stops the server and not only a wrapper.

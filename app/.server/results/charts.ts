@@ -8,7 +8,7 @@ import { db, schema } from "../db";
 import { contrastsView } from "./contrasts";
 import { depthLabel, plotObservations } from "./observations";
 import type { ResultsQuery } from "./service";
-import { ResultsError, selectObservations, trialData, trialFit } from "./service";
+import { cachedForDataVersion, ResultsError, selectObservations, trialData, trialFit } from "./service";
 
 export type SeasonMeansChart = {
   title: string;
@@ -31,7 +31,7 @@ function groupBy<T>(items: readonly T[], key: (t: T) => string): Map<string, T[]
 }
 
 /** Treatment means ± SE of the plot values in every season (descriptive; one line per treatment). */
-export async function seasonMeansChart(trialId: string, query: ResultsQuery): Promise<SeasonMeansChart> {
+async function buildSeasonMeansChart(trialId: string, query: ResultsQuery): Promise<SeasonMeansChart> {
   const data = await trialData(trialId);
   const { selection, observations } = await selectObservations(data, { ...query, season: undefined });
   const names = new Map(data.treatments.map((t) => [t.code, t.name]));
@@ -92,7 +92,7 @@ export type PlotValuesChart = {
  * Every plot's value in one season by treatment, each block its own position and colour, with the
  * least-squares treatment mean of the per-season ANOVA (the means table's numbers) as a line.
  */
-export async function plotValuesChart(trialId: string, query: ResultsQuery): Promise<PlotValuesChart> {
+async function buildPlotValuesChart(trialId: string, query: ResultsQuery): Promise<PlotValuesChart> {
   const data = await trialData(trialId);
   const season = chartSeason(data, query);
   const { selection, observations } = await selectObservations(data, query);
@@ -202,7 +202,7 @@ export type DepthProfileChart = {
 };
 
 /** Treatment means ± SE of each depth increment in one season, drawn down the profile. */
-export async function depthProfileChart(trialId: string, query: ResultsQuery): Promise<DepthProfileChart> {
+async function buildDepthProfileChart(trialId: string, query: ResultsQuery): Promise<DepthProfileChart> {
   const data = await trialData(trialId);
   const variable = data.variables.find((v) => v.id === query.variable);
   if (!variable) throw new ResultsError(`No values of “${query.variable}” in this trial.`);
@@ -254,7 +254,7 @@ export type StocksChart = {
  * basis (Ellert & Bettany 1995), side by side: where they differ, bulk density changed the soil mass
  * in the fixed layer.
  */
-export async function stocksChart(trialId: string, query: ResultsQuery): Promise<StocksChart> {
+async function buildStocksChart(trialId: string, query: ResultsQuery): Promise<StocksChart> {
   const data = await trialData(trialId);
   // The chart always shows SOC stocks, but a selection that names no variable of this trial is still wrong.
   if (!data.variables.some((v) => v.id === query.variable)) throw new ResultsError(`No values of “${query.variable}” in this trial.`);
@@ -311,7 +311,7 @@ export type DiagnosticsChart = {
  * fitted values and a normal Q–Q plot with a line through the quartiles, Shapiro–Wilk and
  * Brown–Forsythe, studentized residuals beyond ±3 labelled by plot.
  */
-export async function diagnosticsChart(trialId: string, query: ResultsQuery): Promise<DiagnosticsChart> {
+async function buildDiagnosticsChart(trialId: string, query: ResultsQuery): Promise<DiagnosticsChart> {
   const data = await trialData(trialId);
   const season = chartSeason(data, query);
   const { selection, fitted } = await trialFit(trialId, { ...query, model: "per_season", season });
@@ -386,3 +386,16 @@ export async function contrastsChart(trialId: string, query: ResultsQuery): Prom
     problems: view.outcomes.flatMap((o) => (o.error ? [{ name: o.name, error: o.error }] : [])),
   };
 }
+
+// The charts that depend only on measured data, kept until the data change (the plot map also reads
+// the layout and the contrasts chart the saved contrasts, so those two are computed every time).
+export const seasonMeansChart = (trialId: string, query: ResultsQuery): Promise<SeasonMeansChart> =>
+  cachedForDataVersion(trialId, `chart:season-means|${JSON.stringify(query)}`, () => buildSeasonMeansChart(trialId, query));
+export const plotValuesChart = (trialId: string, query: ResultsQuery): Promise<PlotValuesChart> =>
+  cachedForDataVersion(trialId, `chart:plot-values|${JSON.stringify(query)}`, () => buildPlotValuesChart(trialId, query));
+export const depthProfileChart = (trialId: string, query: ResultsQuery): Promise<DepthProfileChart> =>
+  cachedForDataVersion(trialId, `chart:depth-profile|${JSON.stringify(query)}`, () => buildDepthProfileChart(trialId, query));
+export const stocksChart = (trialId: string, query: ResultsQuery): Promise<StocksChart> =>
+  cachedForDataVersion(trialId, `chart:stocks|${JSON.stringify(query)}`, () => buildStocksChart(trialId, query));
+export const diagnosticsChart = (trialId: string, query: ResultsQuery): Promise<DiagnosticsChart> =>
+  cachedForDataVersion(trialId, `chart:diagnostics|${JSON.stringify(query)}`, () => buildDiagnosticsChart(trialId, query));

@@ -68,6 +68,19 @@ function remember<T>(key: string, compute: () => T): T {
   return value;
 }
 
+/**
+ * A computation over a trial's data kept until the data change: the key gains the trial's data
+ * version, and a failure is not kept.
+ */
+export async function cachedForDataVersion<T>(trialId: string, key: string, compute: () => Promise<T>): Promise<T> {
+  const data = await trialData(trialId);
+  const full = `${key}|${trialId}|${data.trial.dataVersion}`;
+  return (remember(full, compute) as Promise<T>).catch((error) => {
+    cache.delete(full);
+    throw error;
+  });
+}
+
 /** Everything the results pages need about a trial at its current data version. */
 export async function trialData(trialId: string): Promise<TrialData> {
   const [trial] = await db

@@ -1,0 +1,88 @@
+// What every request passes through (root middleware): cross-origin writes refused, security
+// headers set, a database outage answered with 503, and one structured log line per request
+// (method, path, status, ms, user id — never bodies, passwords, tokens or keys).
+import { databaseReachable } from "./db";
+import { env } from "./env";
+import { requestFacts } from "./request-context";
+
+const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+const SECURITY_HEADERS: Record<string, string> = {
+  "X-Content-Type-Options": "nosniff",
+  "Referrer-Policy": "strict-origin-when-cross-origin",
+  "X-Frame-Options": "DENY",
+  "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
+  // React Router's hydration data is an inline script; everything else comes from this origin.
+  "Content-Security-Policy": [
+    "default-src 'self'",
+    "script-src 'self' 'unsafe-inline'",
+    "style-src 'self' 'unsafe-inline'",
+    "img-src 'self' data: blob:",
+    "font-src 'self'",
+    "connect-src 'self'",
+    "object-src 'none'",
+    "base-uri 'self'",
+    "form-action 'self'",
+    "frame-ancestors 'none'",
+  ].join("; "),
+};
+
+/** A write from another site (a forged form post) is refused; requests without Origin are not browsers' cross-site posts. */
+export function crossOriginWrite(request: Request): boolean {
+  if (SAFE_METHODS.has(request.method)) return false;
+  if (request.headers.get("sec-fetch-site") === "cross-site") return true;
+  const origin = request.headers.get("origin");
+  if (!origin || origin === "null") return origin === "null";
+  const allowed = new Set([new URL(request.url).origin, new URL(env.TILTHMARK_BASE_URL).origin]);
+  return !allowed.has(origin);
+}
+
+const UNAVAILABLE_PAGE = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Tilthmark is briefly unavailable</title>
+<meta name="viewport" content="width=device-width, initial-scale=1"></head>
+<body style="font-family: system-ui, sans-serif; max-width: 36rem; margin: 4rem auto; padding: 0 1rem; color: #2b2118">
+<h1>Tilthmark can't reach its database</h1>
+<p>The database is restarting or unreachable. Nothing you submitted was saved half-way: changes are saved all at once or not at all.</p>
+<p>Please try again in a minute.</p></body></html>`;
+
+/** A server error while the database is down is an outage, not a bug: say so with 503. */
+async function outageResponse(request: Request): Promise<Response | null> {
+  if (await databaseReachable()) return null;
+  const headers = { "Retry-After": "30" };
+  if (new URL(request.url).pathname.startsWith("/api/")) {
+    return Response.json({ error: "The database is unavailable; try again shortly." }, { status: 503, headers });
+  }
+  return new Response(UNAVAILABLE_PAGE, { status: 503, headers: { ...headers, "Content-Type": "text/html; charset=utf-8" } });
+}
+
+function withHeaders(response: Response): Response {
+  try {
+    for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!response.headers.has(k)) response.headers.set(k, v);
+    return response;
+  } catch {
+    // Immutable headers (e.g. a fetched response): copy into a new Response.
+    const copy = new Response(response.body, response);
+    for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!copy.headers.has(k)) copy.headers.set(k, v);
+    return copy;
+  }
+}
+
+function log(entry: Record<string, unknown>) {
+  if (process.env.TILTHMARK_QUIET_LOGS === "1") return;
+  process.stdout.write(`${JSON.stringify({ time: new Date().toISOString(), ...entry })}\n`);
+}
+
+export async function guardRequest(request: Request, next: () => Promise<Response>): Promise<Response> {
+  const started = performance.now();
+  const path = new URL(request.url).pathname;
+  const facts = { userId: null as string | null };
+  let response: Response;
+  if (crossOriginWrite(request)) {
+    response = new Response("Refused: this form was sent from another site.", { status: 403, headers: { "Content-Type": "text/plain; charset=utf-8" } });
+  } else {
+    response = await requestFacts.run(facts, next);
+    if (response.status === 500) response = (await outageResponse(request)) ?? response;
+  }
+  response = withHeaders(response);
+  log({ level: response.status >= 500 ? "error" : "info", method: request.method, path, status: response.status, ms: Math.round(performance.now() - started), userId: facts.userId });
+  return response;
+}
