@@ -1,6 +1,7 @@
 // A researcher publishes a field brief; an extension agent reads, prints and downloads it.
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { demoTrial } from "../../datasets/demo/scenario";
 import { launchBrowser, latestMailLink, screenshot, signIn } from "../support/browser";
 
 const baseUrl = inject("baseUrl");
@@ -26,7 +27,8 @@ describe("field briefs", () => {
   it("a researcher drafts and publishes a brief from the current results", async () => {
     const page = await newPage();
     await signIn(page, baseUrl, "researcher@cedarhollow.example");
-    await page.locator('a[href^="/trials/"]').first().click();
+    // Other journeys add trials to the demo program; open the demo trial by its title.
+    await page.getByRole("link", { name: demoTrial.title }).first().click();
     await page.getByRole("link", { name: "Field briefs" }).click();
     await page.getByRole("button", { name: "Draft" }).click();
     await page.getByRole("button", { name: "Publish field brief" }).waitFor();

@@ -39,9 +39,13 @@ describe("technician", () => {
     const [download] = await Promise.all([page.waitForEvent("download"), e7.getByRole("link", { name: "LOI template" }).click()]);
     const template = readFileSync((await download.path())!, "utf8").replace(/^\uFEFF/, "").trim().split(/\r\n/);
     expect(template[0]).toBe("sample_code,crucible_g,crucible_dry_soil_g,crucible_residue_g,ignition_c,ignition_hours,lab_id,notes");
-    // DESIGN.md's weighings (LOI 5.00 %) in every row; the 5th data row (spreadsheet row 6) has ash > dry.
-    const filled = template.slice(1).map((l) => l.replace(/,,,,,,,$/, ",20.000,30.000,29.500,550,4,,"));
-    const bad = [template[0], ...filled.map((l, i) => (i === 4 ? l.replace("29.500", "31.200") : l))].join("\n");
+    // DESIGN.md's weighings (20.000 / 30.000 / 29.500 g → LOI 5.00 %) in the first row, residues varying a
+    // little in the others (so the season can be analysed: identical values leave no residual variance);
+    // the 5th data row (spreadsheet row 6) has ash heavier than the dry soil.
+    const weighings = (l: string, residue: string) => l.replace(/,,,,,,,$/, `,20.000,30.000,${residue},550,4,,`);
+    const residue = (i: number) => (29.5 - (i % 9) * 0.011).toFixed(3);
+    const filled = template.slice(1).map((l, i) => weighings(l, residue(i)));
+    const bad = [template[0], ...template.slice(1).map((l, i) => weighings(l, i === 4 ? "31.200" : residue(i)))].join("\n");
 
     await page.getByLabel("What the file holds").selectOption("loi");
     await page.getByLabel("CSV file (up to 20 MB)").setInputFiles({ name: "e7-loi.csv", mimeType: "text/csv", buffer: Buffer.from(bad) });

@@ -3,6 +3,7 @@
 import { readFileSync } from "node:fs";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { demoTrial } from "../../datasets/demo/scenario";
 import { launchBrowser, SCREENSHOT_DIR, screenshot, signIn } from "../support/browser";
 
 const baseUrl = inject("baseUrl");
@@ -17,7 +18,8 @@ afterAll(async () => {
 
 async function openResults(page: Page, email: string): Promise<string> {
   await signIn(page, baseUrl, email);
-  await page.locator('a[href^="/trials/"]').first().click();
+  // Other journeys add trials to the demo program; open the demo trial by its title.
+  await page.getByRole("link", { name: demoTrial.title }).first().click();
   await page.getByRole("navigation", { name: "Trial sections" }).getByRole("link", { name: "Results" }).click();
   await page.waitForURL(/\/results/);
   return new URL(page.url()).pathname.replace(/\/results$/, "");
