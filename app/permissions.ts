@@ -36,17 +36,3 @@ export const ROLE_LABELS: Record<Role, { label: string; summary: string }> = {
   collaborator: { label: "Collaborator", summary: "Reads raw data, results and charts." },
   extension: { label: "Extension agent", summary: "Reads and downloads published field briefs." },
 };
-
-/**
- * Paths open without sign-in. Everything else needs a session and a permission.
- * Patterns use React Router's `:param` syntax.
- */
-export const PUBLIC_PATHS = [
-  "/",
-  "/sign-in",
-  "/setup",
-  "/forgot-password",
-  "/reset-password",
-  "/invitations/:invitationId",
-  "/healthz",
-] as const;

@@ -2,7 +2,7 @@
 // the visitor to sign-in, API routes answer 401 JSON. A new route is covered automatically.
 import { describe, expect, inject, it } from "vitest";
 import routes from "~/routes";
-import { PUBLIC_PATHS } from "~/permissions";
+import { ROUTE_ACCESS } from "~/route-access";
 
 type Entry = { path?: string; index?: boolean; children?: Entry[] };
 
@@ -16,7 +16,7 @@ function flatten(entries: Entry[], parent = ""): string[] {
 
 const baseUrl = inject("baseUrl");
 const paths = [...new Set(flatten(routes as Entry[]))];
-const isPublic = (pattern: string) => (PUBLIC_PATHS as readonly string[]).includes(pattern);
+const isPublic = (pattern: string) => ROUTE_ACCESS[pattern]?.kind === "public";
 // Any well-formed id will do: signed-out requests must be refused before anything is looked up.
 const concrete = (pattern: string) => pattern.replace(/:[A-Za-z]+/g, "00000000-0000-4000-8000-000000000000");
 
