@@ -29,6 +29,8 @@ export async function startMailFake(port = 0): Promise<{ port: number; close: ()
     server.once("error", reject);
     server.listen(port, "127.0.0.1", () => resolve());
   });
+  // The catcher must not keep a stopping server process alive.
+  server.server.unref();
   const address = server.server.address() as AddressInfo;
   return { port: address.port, close: () => new Promise((resolve) => server.close(() => resolve())) };
 }

@@ -1,5 +1,5 @@
 // The guard every loader and action calls. It checks a permission (never a rank) for a scope.
-import { and, eq } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { roleCan, type Permission, type Role } from "~/permissions";
 import { userForApiKey } from "./api-keys";
@@ -64,15 +64,14 @@ export async function requireAdmin(request: Request): Promise<SessionUser> {
   return user;
 }
 
-async function programIdOf(scope: Scope): Promise<string | null> {
-  if ("programId" in scope) return scope.programId;
-  const uuidLike = /^[0-9a-f-]{36}$/i.test(scope.trialId);
-  if (!uuidLike) return null;
-  const [trial] = await db
-    .select({ programId: schema.trials.programId })
-    .from(schema.trials)
-    .where(eq(schema.trials.id, scope.trialId));
-  return trial?.programId ?? null;
+/** The program of a scope as a subquery-ready condition; trial ids that are not UUIDs match nothing. */
+function programCondition(scope: Scope) {
+  if ("programId" in scope) return eq(schema.programs.id, scope.programId);
+  if (!/^[0-9a-f-]{36}$/i.test(scope.trialId)) return null;
+  return inArray(
+    schema.programs.id,
+    db.select({ programId: schema.trials.programId }).from(schema.trials).where(eq(schema.trials.id, scope.trialId)),
+  );
 }
 
 /**
@@ -85,11 +84,13 @@ export async function requirePermission(
   permission: Permission,
 ): Promise<ProgramMember> {
   const user = await requireUser(request);
-  const programId = await programIdOf(scope);
-  if (!programId) notFound(request, "trialId" in scope ? "No such trial." : "No such program.");
+  const condition = programCondition(scope);
+  if (!condition) notFound(request, "No such trial.");
 
+  // One query: the scope's program and the user's membership in it (if any).
   const [row] = await db
     .select({
+      programId: schema.programs.id,
       memberId: schema.members.id,
       role: schema.members.role,
       programName: schema.programs.name,
@@ -99,12 +100,12 @@ export async function requirePermission(
       schema.members,
       and(eq(schema.members.organizationId, schema.programs.id), eq(schema.members.userId, user.id)),
     )
-    .where(eq(schema.programs.id, programId));
+    .where(condition);
 
-  if (!row) notFound(request, "No such program.");
+  if (!row) notFound(request, "trialId" in scope ? "No such trial." : "No such program.");
   if (!row.memberId || !row.role) forbidden(request, "You are not a member of this program.");
   if (!roleCan(row.role, permission)) {
     forbidden(request, `Your role (${row.role}) does not allow this. Ask a program owner if you need it.`);
   }
-  return { user, programId, programName: row.programName, role: row.role as Role, memberId: row.memberId };
+  return { user, programId: row.programId, programName: row.programName, role: row.role as Role, memberId: row.memberId };
 }

@@ -4,7 +4,9 @@ import { env } from "../env";
 import * as schema from "./schema";
 
 // A bounded wait for a connection, so requests during a database outage fail fast (503) instead of hanging.
-export const pool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 10, connectionTimeoutMillis: 5_000 });
+// Idle connections do not keep the process alive, so a stopped HTTP server (SIGTERM) lets it exit
+// once in-flight requests are done.
+export const pool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 10, connectionTimeoutMillis: 5_000, allowExitOnIdle: true });
 // A dropped connection (e.g. the database restarting) must not crash the server.
 pool.on("error", (error) => console.error("[db] idle client error:", error.message));
 // A connection killed mid-transaction rejects its query (the transaction rolls back); the client's
