@@ -1,6 +1,16 @@
 import { useEffect, useRef, useState, type ReactNode } from "react";
 import { useFetcher } from "react-router";
 
+/**
+ * Observable Plot labels each mark's <g> (and some shapes) with aria-label but gives them no role;
+ * a label needs one (WAI-ARIA: aria-label is not allowed on a generic element), so labelled groups
+ * become ARIA groups and labelled shapes images.
+ */
+export function labelledGroups<T extends Element | null>(chart: T): T {
+  chart?.querySelectorAll("[aria-label]:not([role])").forEach((el) => el.setAttribute("role", el.tagName.toLowerCase() === "g" ? "group" : "img"));
+  return chart;
+}
+
 /** Colour-blind-safe palette (Okabe & Ito 2008) for treatments; charts also label by text. */
 export const TREATMENT_COLOURS = ["#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00", "#000000", "#F0E442"];
 
@@ -47,7 +57,7 @@ export function ChartPanel<T extends { title: string; caption: string }>({
   useEffect(() => {
     const el = holder.current;
     if (!el || !ready) return;
-    const chart = draw(ready, width);
+    const chart = labelledGroups(draw(ready, width));
     el.replaceChildren(...(chart ? [chart] : []));
     // Each drawing is an image named by the chart's title; the caption below says what it shows.
     for (const svg of topLevelSvgs(el)) {

@@ -33,7 +33,8 @@ export default function AppLayout() {
             ))}
           </nav>
           <div className="flex items-center gap-3 text-sm">
-            <Link to="/account" className="text-loam-800 no-underline hover:underline" aria-label={`Your account: ${user.name}`}>
+            <Link to="/account" className="text-loam-800 no-underline hover:underline">
+              <span className="sr-only">Your account: </span>
               {user.name}
               {user.isAdmin && <span className="ml-2 rounded bg-loam-100 px-1.5 py-0.5 text-xs text-loam-800">administrator</span>}
             </Link>

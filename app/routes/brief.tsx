@@ -8,7 +8,7 @@ import type { BriefContent } from "~/.server/briefs";
 import { env } from "~/.server/env";
 import { getSession } from "~/.server/session";
 import { citation, inReaderUnits, unitLabel } from "~/brief-units";
-import { TREATMENT_COLOURS } from "~/components/chart-panel";
+import { labelledGroups, TREATMENT_COLOURS } from "~/components/chart-panel";
 import { Caution } from "~/components/more-fields";
 import { Wordmark } from "~/components/wordmark";
 import { formatNumber, formatP } from "~/format";
@@ -247,7 +247,7 @@ function FrozenChart({ section, units }: { section: BriefSection; units: UnitSys
         Plot.dot(points, { x: "season", y: "value", fill: "label", r: 2.5 }),
       ],
     });
-    el.replaceChildren(chart);
+    el.replaceChildren(labelledGroups(chart));
     return () => el.replaceChildren();
   }, [section, units]);
   return (
