@@ -16,29 +16,38 @@ type FieldProps = {
   readOnly?: boolean;
 };
 
-/** A labelled input with its hint and its error message right beside it. */
-export function Field({ label, name, type = "text", defaultValue, errors, hint, ...rest }: FieldProps) {
+/** The id, error and aria-describedby shared by every labelled field. */
+export function fieldParts(name: string, errors: FieldErrors | undefined, hint: ReactNode, showHintWithError = true) {
   const error = errors?.[name]?.[0];
   const id = `field-${name}`;
-  const describedBy = [hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ");
+  const hintShown = Boolean(hint) && (showHintWithError || !error);
+  const describedBy = [hintShown ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ");
+  return { id, error, hintShown, describedBy: describedBy || undefined, invalid: error ? true : undefined };
+}
+
+/** A field's label above its control, and its hint and error message right below. */
+export function FieldFrame({
+  id,
+  label,
+  hint,
+  hintShown,
+  error,
+  children,
+}: {
+  id: string;
+  label: string;
+  hint?: ReactNode;
+  hintShown: boolean;
+  error?: string;
+  children: ReactNode;
+}) {
   return (
     <div className="flex flex-col gap-1">
       <label htmlFor={id} className="text-sm font-medium text-loam-900">
         {label}
       </label>
-      <input
-        id={id}
-        name={name}
-        type={type}
-        defaultValue={defaultValue}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={describedBy || undefined}
-        className={`rounded-md border bg-white px-3 py-2 text-base text-loam-950 shadow-xs outline-none focus:border-moss-700 focus:ring-2 focus:ring-moss-600/30 read-only:bg-loam-100 ${
-          error ? "border-brick-700" : "border-loam-400"
-        }`}
-        {...rest}
-      />
-      {hint && (
+      {children}
+      {hintShown && (
         <p id={`${id}-hint`} className="text-sm text-loam-600">
           {hint}
         </p>
@@ -52,6 +61,28 @@ export function Field({ label, name, type = "text", defaultValue, errors, hint, 
   );
 }
 
+/** Border colour of a control: red when its field has an error. */
+export const controlBorder = (error: string | undefined) => (error ? "border-brick-700" : "border-loam-400");
+
+/** A labelled input with its hint and its error message right beside it. */
+export function Field({ label, name, type = "text", defaultValue, errors, hint, ...rest }: FieldProps) {
+  const { id, error, hintShown, describedBy, invalid } = fieldParts(name, errors, hint);
+  return (
+    <FieldFrame id={id} label={label} hint={hint} hintShown={hintShown} error={error}>
+      <input
+        id={id}
+        name={name}
+        type={type}
+        defaultValue={defaultValue}
+        aria-invalid={invalid}
+        aria-describedby={describedBy}
+        className={`rounded-md border bg-white px-3 py-2 text-base text-loam-950 shadow-xs outline-none focus:border-moss-700 focus:ring-2 focus:ring-moss-600/30 read-only:bg-loam-100 ${controlBorder(error)}`}
+        {...rest}
+      />
+    </FieldFrame>
+  );
+}
+
 type SelectProps = {
   label: string;
   name: string;
@@ -62,22 +93,16 @@ type SelectProps = {
 };
 
 export function SelectField({ label, name, options, defaultValue, errors, hint }: SelectProps) {
-  const error = errors?.[name]?.[0];
-  const id = `field-${name}`;
+  const { id, error, hintShown, describedBy, invalid } = fieldParts(name, errors, hint, false);
   return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="text-sm font-medium text-loam-900">
-        {label}
-      </label>
+    <FieldFrame id={id} label={label} hint={hint} hintShown={hintShown} error={error}>
       <select
         id={id}
         name={name}
         defaultValue={defaultValue}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={error ? `${id}-error` : hint ? `${id}-hint` : undefined}
-        className={`rounded-md border bg-white px-3 py-2 text-base focus:border-moss-700 focus:ring-2 focus:ring-moss-600/30 ${
-          error ? "border-brick-700" : "border-loam-400"
-        }`}
+        aria-invalid={invalid}
+        aria-describedby={describedBy}
+        className={`rounded-md border bg-white px-3 py-2 text-base focus:border-moss-700 focus:ring-2 focus:ring-moss-600/30 ${controlBorder(error)}`}
       >
         {options.map((o) => (
           <option key={o.value} value={o.value}>
@@ -85,17 +110,7 @@ export function SelectField({ label, name, options, defaultValue, errors, hint }
           </option>
         ))}
       </select>
-      {hint && !error && (
-        <p id={`${id}-hint`} className="text-sm text-loam-600">
-          {hint}
-        </p>
-      )}
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-medium text-brick-700">
-          {error}
-        </p>
-      )}
-    </div>
+    </FieldFrame>
   );
 }
 

@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import type { FieldErrors } from "./form";
+import { controlBorder, FieldFrame, fieldParts, type FieldErrors } from "./form";
 
 /** A labelled multi-line text box with its hint and error beside it. */
 export function TextAreaField({
@@ -19,37 +19,20 @@ export function TextAreaField({
   rows?: number;
   maxLength?: number;
 }) {
-  const error = errors?.[name]?.[0];
-  const id = `field-${name}`;
-  const describedBy = [hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ");
+  const { id, error, hintShown, describedBy, invalid } = fieldParts(name, errors, hint);
   return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="text-sm font-medium text-loam-900">
-        {label}
-      </label>
+    <FieldFrame id={id} label={label} hint={hint} hintShown={hintShown} error={error}>
       <textarea
         id={id}
         name={name}
         rows={rows}
         maxLength={maxLength}
         defaultValue={defaultValue}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={describedBy || undefined}
-        className={`rounded-md border bg-white px-3 py-2 text-base text-loam-950 shadow-xs outline-none focus:border-moss-700 focus:ring-2 focus:ring-moss-600/30 ${
-          error ? "border-brick-700" : "border-loam-400"
-        }`}
+        aria-invalid={invalid}
+        aria-describedby={describedBy}
+        className={`rounded-md border bg-white px-3 py-2 text-base text-loam-950 shadow-xs outline-none focus:border-moss-700 focus:ring-2 focus:ring-moss-600/30 ${controlBorder(error)}`}
       />
-      {hint && (
-        <p id={`${id}-hint`} className="text-sm text-loam-600">
-          {hint}
-        </p>
-      )}
-      {error && (
-        <p id={`${id}-error`} className="text-sm font-medium text-brick-700">
-          {error}
-        </p>
-      )}
-    </div>
+    </FieldFrame>
   );
 }
 

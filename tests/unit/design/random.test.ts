@@ -3,7 +3,7 @@ import jStat from "jstat";
 import { assertSeed, drawSeed, mulberry32, shuffled } from "../../../analysis/design";
 
 /**
- * Independent transcription of the reference C code of Mulberry32 (Tommy Ettinger, 2017) in exact
+ * An independent re-implementation of the reference C code of Mulberry32 (Tommy Ettinger, 2017) in exact
  * BigInt arithmetic modulo 2³², so a slip in the Math.imul / >>> version would show:
  *   z = (state += 0x6D2B79F5); z = (z ^ (z >> 15)) * (z | 1); z ^= z + (z ^ (z >> 7)) * (z | 61); return z ^ (z >> 14);
  */
