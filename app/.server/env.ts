@@ -11,6 +11,7 @@ const schema = z.object({
   RATE_LIMIT_SIGN_IN: z.coerce.number().int().positive().default(10),
   RATE_LIMIT_RESET: z.coerce.number().int().positive().default(5),
   RATE_LIMIT_INVITE: z.coerce.number().int().positive().default(30),
+  RATE_LIMIT_UPLOAD: z.coerce.number().int().positive().default(60),
   RATE_LIMIT_WINDOW_S: z.coerce.number().int().positive().default(600),
   INVITATION_TTL_HOURS: z.coerce.number().positive().default(72),
 });

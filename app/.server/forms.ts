@@ -4,6 +4,21 @@ import { z } from "zod";
 const SECRET_FIELDS = new Set(["password", "confirmPassword", "currentPassword"]);
 
 /**
+ * The posted form, or a 400 with a sentence when the body is not one (JSON, a broken multipart
+ * body, a wrong content type): hostile or garbled posts get an answer, not a server error.
+ */
+export async function readForm(request: Request): Promise<FormData> {
+  try {
+    return await request.formData();
+  } catch {
+    throw data("This request did not carry a form Tilthmark can read. Reload the page and submit the form again.", { status: 400 });
+  }
+}
+
+/** PostgreSQL text cannot hold U+0000, and no form field needs it. */
+const NUL = "\u0000";
+
+/**
  * Parses a submitted form with a zod schema. On failure returns a 400 `data` response with
  * errors keyed by field and the submitted values (secrets removed) so the form keeps them.
  */
@@ -11,6 +26,11 @@ export function parseForm<S extends z.ZodType>(formData: FormData, schema: S) {
   const values: Record<string, string> = {};
   for (const [key, value] of formData) {
     if (typeof value === "string") values[key] = value;
+  }
+  const withNul = Object.keys(values).filter((k) => values[k].includes(NUL) || k.includes(NUL));
+  if (withNul.length > 0) {
+    const errors = Object.fromEntries(withNul.map((k) => [k, ["This contains a null character (U+0000), which cannot be saved. Retype the value."]]));
+    return { ok: false as const, response: invalid(errors, Object.fromEntries(Object.entries(values).map(([k, v]) => [k, v.replaceAll(NUL, "")]))) };
   }
   const result = schema.safeParse(values);
   if (result.success) return { ok: true as const, data: result.data as z.output<S> };

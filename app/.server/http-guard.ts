@@ -7,15 +7,16 @@ import { requestFacts } from "./request-context";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
-const SECURITY_HEADERS: Record<string, string> = {
-  "X-Content-Type-Options": "nosniff",
-  "Referrer-Policy": "strict-origin-when-cross-origin",
-  "X-Frame-Options": "DENY",
-  "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
-  // React Router's hydration data is an inline script; everything else comes from this origin.
-  "Content-Security-Policy": [
+/**
+ * The Content-Security-Policy: everything from this origin, no inline scripts. An HTML document
+ * passes the nonce its entry gave React Router's own inline scripts (hydration data, scroll
+ * restoration); other responses carry no scripts at all. Inline styles stay allowed: Observable
+ * Plot writes style attributes into the charts it draws.
+ */
+export function contentSecurityPolicy(nonce?: string): string {
+  return [
     "default-src 'self'",
-    "script-src 'self' 'unsafe-inline'",
+    nonce ? `script-src 'self' 'nonce-${nonce}'` : "script-src 'self'",
     "style-src 'self' 'unsafe-inline'",
     "img-src 'self' data: blob:",
     "font-src 'self'",
@@ -24,7 +25,16 @@ const SECURITY_HEADERS: Record<string, string> = {
     "base-uri 'self'",
     "form-action 'self'",
     "frame-ancestors 'none'",
-  ].join("; "),
+  ].join("; ");
+}
+
+const SECURITY_HEADERS: Record<string, string> = {
+  "X-Content-Type-Options": "nosniff",
+  "Referrer-Policy": "strict-origin-when-cross-origin",
+  "X-Frame-Options": "DENY",
+  "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
+  // Documents set their own, with a nonce (app/entry.server.tsx); this one is for everything else.
+  "Content-Security-Policy": contentSecurityPolicy(),
 };
 
 /** A write from another site (a forged form post) is refused; requests without Origin are not browsers' cross-site posts. */
@@ -35,6 +45,16 @@ export function crossOriginWrite(request: Request): boolean {
   if (!origin || origin === "null") return origin === "null";
   const allowed = new Set([new URL(request.url).origin, new URL(env.TILTHMARK_BASE_URL).origin]);
   return !allowed.has(origin);
+}
+
+/** Forms are small; only the lab-file upload takes a large body, and it enforces its own 20 MB cap. */
+const MAX_FORM_BYTES = 1024 * 1024;
+const UPLOAD_PATH = /^\/trials\/[^/]+\/intake(\.data)?$/;
+
+/** A declared body larger than any form (a junk flood) is refused before anything reads it. */
+function oversizedForm(request: Request, path: string): boolean {
+  if (SAFE_METHODS.has(request.method) || UPLOAD_PATH.test(path)) return false;
+  return Number(request.headers.get("content-length") ?? 0) > MAX_FORM_BYTES;
 }
 
 const UNAVAILABLE_PAGE = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Tilthmark is briefly unavailable</title>
@@ -78,6 +98,8 @@ export async function guardRequest(request: Request, next: () => Promise<Respons
   let response: Response;
   if (crossOriginWrite(request)) {
     response = new Response("Refused: this form was sent from another site.", { status: 403, headers: { "Content-Type": "text/plain; charset=utf-8" } });
+  } else if (oversizedForm(request, path)) {
+    response = new Response("Refused: this form is larger than 1 MB. Lab files go through Lab intake.", { status: 413, headers: { "Content-Type": "text/plain; charset=utf-8" } });
   } else {
     response = await requestFacts.run(facts, next);
     if (response.status === 500) response = (await outageResponse(request)) ?? response;

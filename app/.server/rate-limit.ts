@@ -1,4 +1,4 @@
-// Limits on sign-in, password reset and invitations (and later uploads). Limits come from the
+// Limits on sign-in, password reset, invitations and lab-file uploads. Limits come from the
 // environment so tests and benchmarks can raise them. In memory: one app server keeps its own
 // counters; several servers behind a balancer each enforce the limit.
 import { RateLimiterMemory, RateLimiterRes } from "rate-limiter-flexible";
@@ -8,9 +8,14 @@ const limiters = {
   signIn: new RateLimiterMemory({ points: env.RATE_LIMIT_SIGN_IN, duration: env.RATE_LIMIT_WINDOW_S }),
   reset: new RateLimiterMemory({ points: env.RATE_LIMIT_RESET, duration: env.RATE_LIMIT_WINDOW_S }),
   invite: new RateLimiterMemory({ points: env.RATE_LIMIT_INVITE, duration: env.RATE_LIMIT_WINDOW_S }),
+  // Per user: 60 files per 10 minutes is far above a technician's busiest afternoon.
+  upload: new RateLimiterMemory({ points: env.RATE_LIMIT_UPLOAD, duration: env.RATE_LIMIT_WINDOW_S }),
 };
 
 export type LimitKind = keyof typeof limiters;
+
+/** What the refusal counts, in the user's words. */
+const COUNTED: Record<LimitKind, string> = { signIn: "attempts", reset: "attempts", invite: "attempts", upload: "uploads" };
 
 /** Consumes one attempt; returns null when allowed, or a sentence saying when to retry. */
 export async function consumeAttempt(kind: LimitKind, key: string): Promise<string | null> {
@@ -20,6 +25,6 @@ export async function consumeAttempt(kind: LimitKind, key: string): Promise<stri
   } catch (rejection) {
     if (!(rejection instanceof RateLimiterRes)) throw rejection;
     const minutes = Math.max(1, Math.ceil(rejection.msBeforeNext / 60_000));
-    return `Too many attempts. Please wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again.`;
+    return `Too many ${COUNTED[kind]}. Please wait ${minutes} minute${minutes === 1 ? "" : "s"} and try again.`;
   }
 }

@@ -5,7 +5,7 @@ import { z } from "zod";
 import { createApiKey, listApiKeys, revokeApiKey } from "~/.server/api-keys";
 import { auth } from "~/.server/auth";
 import { db, schema } from "~/.server/db";
-import { invalid, newPassword, parseForm, personName } from "~/.server/forms";
+import { invalid, newPassword, parseForm, personName, readForm } from "~/.server/forms";
 import { requireUser } from "~/.server/permissions";
 import { Field, FormMessage, SelectField, SubmitButton } from "~/components/form";
 import { PageHeader, Section } from "~/components/page";
@@ -51,7 +51,7 @@ const Intent = z.discriminatedUnion(
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
-  const parsed = parseForm(await request.formData(), Intent);
+  const parsed = parseForm(await readForm(request), Intent);
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;
   if (input.intent === "create-key") {

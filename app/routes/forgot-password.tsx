@@ -1,7 +1,7 @@
 import { Form, Link, useActionData } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
-import { email, invalid, parseForm } from "~/.server/forms";
+import { email, invalid, parseForm, readForm } from "~/.server/forms";
 import { consumeAttempt } from "~/.server/rate-limit";
 import { AuthCard } from "~/components/auth-card";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
@@ -14,7 +14,7 @@ export async function loader() {
 }
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(await request.formData(), z.object({ email }));
+  const parsed = parseForm(await readForm(request), z.object({ email }));
   if (!parsed.ok) return parsed.response;
   const limited = await consumeAttempt("reset", parsed.data.email);
   if (limited) return invalid({}, parsed.data, limited);

@@ -2,7 +2,7 @@ import { Form, Link, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import { requireAdmin, requireUser } from "~/.server/permissions";
 import { ProgramError, createProgram, listProgramsOf } from "~/.server/programs";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { listTrials } from "~/.server/trials";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
 import { Empty, PageHeader, Section, StatusBadge, DESIGN_LABELS } from "~/components/page";
@@ -24,7 +24,7 @@ const NewProgram = z.object({
 
 export async function action({ request }: Route.ActionArgs) {
   const admin = await requireAdmin(request);
-  const parsed = parseForm(await request.formData(), NewProgram);
+  const parsed = parseForm(await readForm(request), NewProgram);
   if (!parsed.ok) return parsed.response;
   try {
     const program = await createProgram(request, admin.id, parsed.data.name);

@@ -1,7 +1,7 @@
 import { data, Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import { AccountError, acceptInvitation, findInvitation, signInWithPassword } from "~/.server/accounts";
-import { invalid, newPassword, parseForm, personName } from "~/.server/forms";
+import { invalid, newPassword, parseForm, personName, readForm } from "~/.server/forms";
 import { consumeAttempt } from "~/.server/rate-limit";
 import { findUserIdByEmail } from "~/.server/users";
 import { AuthCard } from "~/components/auth-card";
@@ -41,7 +41,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (invitation.state !== "open") return invalid({}, {}, stateMessage(invitation.state));
   const limited = await consumeAttempt("invite", `accept:${invitation.id}`);
   if (limited) return invalid({}, {}, limited);
-  const formData = await request.formData();
+  const formData = await readForm(request);
 
   try {
     if (invitation.accountExists) {

@@ -1,7 +1,7 @@
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { BatchInput, createBatch, getAmendment } from "~/.server/design/amendments";
 import { refusing } from "~/.server/design/respond";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { BatchFormFields } from "~/components/batch-form";
 import { FormMessage, SubmitButton } from "~/components/form";
@@ -26,7 +26,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "samples.edit");
   const amendment = await getAmendment(member.programId, params.amendmentId);
   if (!amendment) notFound(request, "No such amendment in this program.");
-  const parsed = parseForm(await request.formData(), BatchInput);
+  const parsed = parseForm(await readForm(request), BatchInput);
   if (!parsed.ok) return parsed.response;
   const result = await refusing(parsed.data, () => createBatch(member.user.id, member.programId, amendment.id, parsed.data));
   if ("id" in result) throw redirect(`/programs/${member.programId}/amendments/${amendment.id}/batches/${result.id}`);

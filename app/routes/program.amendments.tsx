@@ -1,7 +1,7 @@
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { AmendmentInput, createAmendment, listAmendments } from "~/.server/design/amendments";
 import { refusing } from "~/.server/design/respond";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { buttonClass, Field, FormMessage, SelectField, SubmitButton } from "~/components/form";
 import { formState } from "~/components/form-state";
@@ -25,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "samples.edit");
-  const parsed = parseForm(await request.formData(), AmendmentInput);
+  const parsed = parseForm(await readForm(request), AmendmentInput);
   if (!parsed.ok) return parsed.response;
   const result = await refusing(parsed.data, () => createAmendment(member.user.id, member.programId, parsed.data));
   if ("id" in result) throw redirect(`/programs/${member.programId}/amendments/${result.id}`);

@@ -12,7 +12,7 @@ import {
 import { requiredNumber } from "~/.server/design/inputs";
 import { parseLogDateTime, parseTemperatureCsv } from "~/.server/design/temperature-log";
 import { formValues, refusing } from "~/.server/design/respond";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { BatchFormFields } from "~/components/batch-form";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
@@ -66,7 +66,7 @@ const Reading = z.object({
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "samples.edit");
   const { batch } = await openBatch(request, member.programId, params.amendmentId, params.batchId);
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = form.get("intent");
   const actor = member.user.id;
   switch (intent) {

@@ -1,6 +1,6 @@
 import { Form, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { addCustomVariable, addLabMethod, LabMethodError, listCustomVariables, listLabMethods } from "~/.server/lab-methods";
 import { requirePermission } from "~/.server/permissions";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
@@ -79,7 +79,7 @@ const Intent = z.discriminatedUnion(
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "samples.edit");
-  const parsed = parseForm(await request.formData(), Intent);
+  const parsed = parseForm(await readForm(request), Intent);
   if (!parsed.ok) return parsed.response;
   const { intent, ...input } = parsed.data;
   try {

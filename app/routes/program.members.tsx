@@ -1,7 +1,7 @@
 import { useEffect, useRef } from "react";
 import { Form, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { email, invalid, parseForm } from "~/.server/forms";
+import { email, invalid, parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import {
   ProgramError,
@@ -46,7 +46,7 @@ const Intent = z.discriminatedUnion(
 
 export async function action({ request, params }: Route.ActionArgs) {
   const owner = await requirePermission(request, { programId: params.programId }, "members.manage");
-  const parsed = parseForm(await request.formData(), Intent);
+  const parsed = parseForm(await readForm(request), Intent);
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;
   const actor = owner.user.id;

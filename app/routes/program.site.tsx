@@ -1,7 +1,7 @@
 import { Form, useActionData, useLoaderData, useSearchParams } from "react-router";
 import { refusing } from "~/.server/design/respond";
 import { getSite, SiteInput, TEXTURE_CLASSES, updateSite } from "~/.server/design/sites";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { FormMessage, SubmitButton } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "trials.edit");
-  const parsed = parseForm(await request.formData(), SiteInput);
+  const parsed = parseForm(await readForm(request), SiteInput);
   if (!parsed.ok) return parsed.response;
   const result = await refusing(parsed.data, () => updateSite(member.user.id, member.programId, params.siteId, parsed.data));
   return "id" in result ? { ok: "Site saved." } : result;

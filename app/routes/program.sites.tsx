@@ -1,7 +1,7 @@
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { refusing } from "~/.server/design/respond";
 import { createSite, listSites, SiteInput, TEXTURE_CLASSES } from "~/.server/design/sites";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { FormMessage, SubmitButton } from "~/components/form";
 import { formState } from "~/components/form-state";
@@ -25,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "trials.edit");
-  const parsed = parseForm(await request.formData(), SiteInput);
+  const parsed = parseForm(await readForm(request), SiteInput);
   if (!parsed.ok) return parsed.response;
   const result = await refusing(parsed.data, () => createSite(member.user.id, member.programId, parsed.data));
   if ("id" in result) throw redirect(`/programs/${member.programId}/sites/${result.id}?saved=1`);

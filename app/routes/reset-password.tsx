@@ -2,7 +2,7 @@ import { APIError } from "better-auth/api";
 import { Form, Link, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
-import { invalid, newPassword, parseForm } from "~/.server/forms";
+import { invalid, newPassword, parseForm, readForm } from "~/.server/forms";
 import { AuthCard } from "~/components/auth-card";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
 import type { Route } from "./+types/reset-password";
@@ -22,7 +22,7 @@ const Reset = z
   .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: "The two passwords differ." });
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(await request.formData(), Reset);
+  const parsed = parseForm(await readForm(request), Reset);
   if (!parsed.ok) return parsed.response;
   try {
     await auth.api.resetPassword({ body: { token: parsed.data.token, newPassword: parsed.data.password } });

@@ -1,7 +1,7 @@
 import { Form, redirect, useActionData } from "react-router";
 import { z } from "zod";
 import { AccountError, createFirstAdministrator, signInWithPassword, userCount } from "~/.server/accounts";
-import { email, invalid, newPassword, parseForm, personName } from "~/.server/forms";
+import { email, invalid, newPassword, parseForm, personName, readForm } from "~/.server/forms";
 import { AuthCard } from "~/components/auth-card";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
 import type { Route } from "./+types/setup";
@@ -19,7 +19,7 @@ const Setup = z
   .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: "The two passwords differ." });
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(await request.formData(), Setup);
+  const parsed = parseForm(await readForm(request), Setup);
   if (!parsed.ok) return parsed.response;
   try {
     await createFirstAdministrator(parsed.data);

@@ -1,7 +1,7 @@
 import { Form, Link, redirect, useActionData, useSearchParams } from "react-router";
 import { z } from "zod";
 import { userCount, signInWithPassword } from "~/.server/accounts";
-import { email, invalid, parseForm } from "~/.server/forms";
+import { email, invalid, parseForm, readForm } from "~/.server/forms";
 import { consumeAttempt } from "~/.server/rate-limit";
 import { getSession } from "~/.server/session";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
@@ -28,7 +28,7 @@ const SignIn = z.object({
 });
 
 export async function action({ request }: Route.ActionArgs) {
-  const parsed = parseForm(await request.formData(), SignIn);
+  const parsed = parseForm(await readForm(request), SignIn);
   if (!parsed.ok) return parsed.response;
   const { email: address, password, redirectTo } = parsed.data;
   const limited = await consumeAttempt("signIn", address);

@@ -2,7 +2,7 @@ import { Form, Link, redirect, useActionData, useLoaderData } from "react-router
 import { TrialInput } from "~/.server/design/inputs";
 import { refusing } from "~/.server/design/respond";
 import { createTrial, listSitesOf } from "~/.server/design/trials";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { FormMessage, SubmitButton } from "~/components/form";
 import { formState } from "~/components/form-state";
@@ -19,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "trials.edit");
-  const parsed = parseForm(await request.formData(), TrialInput);
+  const parsed = parseForm(await readForm(request), TrialInput);
   if (!parsed.ok) return parsed.response;
   const result = await refusing(parsed.data, () => createTrial(member.user.id, member.programId, parsed.data));
   if ("id" in result) throw redirect(`/trials/${result.id}/treatments`);

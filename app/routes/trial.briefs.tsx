@@ -1,7 +1,7 @@
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import { draftBrief, listBriefs, publishBrief, type BriefSelection } from "~/.server/briefs";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { ResultsError, trialData } from "~/.server/results/service";
 import { buttonClass, Field, FormMessage, SelectField, SubmitButton } from "~/components/form";
@@ -63,7 +63,7 @@ const Publish = z.object({
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "briefs.publish");
-  const formData = await request.formData();
+  const formData = await readForm(request);
   const parsed = parseForm(formData, Publish);
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;

@@ -1,6 +1,6 @@
 import { Form, Link, data, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { kindsOf } from "~/.server/intake/context";
 import { loadDerivedSamples } from "~/.server/intake/derived";
@@ -44,10 +44,10 @@ const Qc = z.object({
 
 export async function action({ request, params }: Route.ActionArgs) {
   const code = new URL(request.url).searchParams.get("code") ?? "";
-  const form = await request.formData();
-  const intent = form.get("intent");
-  if (intent === "qc") {
-    const member = await requirePermission(request, { trialId: params.trialId }, "measurements.review");
+  const member = await requirePermission(request, { trialId: params.trialId }, "measurements.upload");
+  const form = await readForm(request);
+  if (form.get("intent") === "qc") {
+    await requirePermission(request, { trialId: params.trialId }, "measurements.review");
     const parsed = parseForm(form, Qc);
     if (!parsed.ok) return parsed.response;
     try {
@@ -58,7 +58,6 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     return { ok: parsed.data.decision === "exclude" ? "Excluded: the value stays visible, marked, and is left out of analyses." : "Accepted: the value counts in analyses." };
   }
-  const member = await requirePermission(request, { trialId: params.trialId }, "measurements.upload");
   const kind = String(form.get("kind") ?? "");
   const values = Object.fromEntries([...form].filter(([, v]) => typeof v === "string")) as Record<string, string>;
   const cells = Object.fromEntries(Object.entries(values).filter(([k]) => k.startsWith("f:")).map(([k, v]) => [k.slice(2), v]));

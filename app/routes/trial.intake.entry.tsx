@@ -8,6 +8,7 @@ import { FormMessage, SubmitButton } from "~/components/form";
 import { RowMessages } from "~/components/intake-messages";
 import { Caution, CheckboxField } from "~/components/more-fields";
 import type { Route } from "./+types/trial.intake.entry";
+import { readForm } from "~/.server/forms";
 
 export const meta: Route.MetaFunction = () => [{ title: "Enter results by hand · Tilthmark" }];
 
@@ -51,7 +52,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "measurements.upload");
   const { event, kind } = await resolve(request, params.trialId, member.programId);
-  const form = await request.formData();
+  const form = await readForm(request);
   const values = Object.fromEntries([...form].filter(([, v]) => typeof v === "string")) as Record<string, string>;
   const current = await currentInputsOfEvent(event.id, kind.id);
   const fieldKeys = kind.fields.filter((f) => f.key !== "sampleCode").map((f) => f.key);

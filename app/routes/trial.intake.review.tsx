@@ -1,6 +1,6 @@
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { IntakeError } from "~/.server/intake/errors";
 import { notifyCommitted } from "~/.server/intake/notify";
@@ -81,7 +81,7 @@ const Intent = z.discriminatedUnion(
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "measurements.upload");
-  const form = await request.formData();
+  const form = await readForm(request);
   const parsed = parseForm(form, Intent);
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;

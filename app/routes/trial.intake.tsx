@@ -2,6 +2,7 @@ import { useState } from "react";
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { invalid } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
+import { consumeAttempt } from "~/.server/rate-limit";
 import { kindsOf } from "~/.server/intake/context";
 import { IntakeError } from "~/.server/intake/errors";
 import { listEvents } from "~/.server/intake/events";
@@ -32,6 +33,9 @@ const DELIMITERS: Record<string, Delimiter | undefined> = { auto: undefined, com
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "measurements.upload");
+  // Counted before the body is read, so a flood of files costs no parsing.
+  const limited = await consumeAttempt("upload", member.user.id);
+  if (limited) return invalid({ file: [limited] }, {});
   let form: FormData;
   try {
     form = await readUploadForm(request);

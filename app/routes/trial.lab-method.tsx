@@ -2,7 +2,7 @@ import { Form, Link, useActionData, useLoaderData } from "react-router";
 import { eq } from "drizzle-orm";
 import { z } from "zod";
 import { db, schema } from "~/.server/db";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { LabMethodError, listLabMethods, setCarbonMethod } from "~/.server/lab-methods";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { FormMessage, SelectField, SubmitButton } from "~/components/form";
@@ -31,7 +31,7 @@ const CarbonMethod = z.object({
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "trials.edit");
-  const parsed = parseForm(await request.formData(), CarbonMethod);
+  const parsed = parseForm(await readForm(request), CarbonMethod);
   if (!parsed.ok) return parsed.response;
   try {
     await setCarbonMethod(member.user.id, params.trialId, parsed.data);

@@ -5,7 +5,7 @@ import { optionalNumber, requiredNumber } from "~/.server/design/inputs";
 import { refusing } from "~/.server/design/respond";
 import { listFactors, listTreatments } from "~/.server/design/treatments";
 import { getTrial, lockedMessage, trialHistory } from "~/.server/design/trials";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { Field, FormMessage, SelectField, SubmitButton, buttonClass } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
@@ -63,7 +63,7 @@ const Intent = z.discriminatedUnion(
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "trials.edit");
-  const parsed = parseForm(await request.formData(), Intent);
+  const parsed = parseForm(await readForm(request), Intent);
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;
   if (input.intent === "lock") {

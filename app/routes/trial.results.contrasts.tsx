@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Form, Link, redirect, useActionData, useLoaderData, useSearchParams } from "react-router";
-import { invalid } from "~/.server/forms";
+import { invalid, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { addPreset, contrastsView, deleteContrast, saveContrast } from "~/.server/results/contrasts";
 import { parseResultsQuery, ResultsError, ResultsQuery, trialData } from "~/.server/results/service";
@@ -44,7 +44,7 @@ function parseCoefficient(text: string): number | null {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "trials.edit");
-  const form = await request.formData();
+  const form = await readForm(request);
   const values = Object.fromEntries([...form].filter((e): e is [string, string] => typeof e[1] === "string"));
   const back = (saved: string) => {
     const search = new URL(request.url).searchParams;

@@ -1,6 +1,6 @@
 import { Form, Link, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { invalid, parseForm } from "~/.server/forms";
+import { invalid, parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { kindsOf } from "~/.server/intake/context";
 import { IntakeError } from "~/.server/intake/errors";
@@ -39,7 +39,7 @@ const NewEvent = z.object({
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "samples.edit");
-  const form = await request.formData();
+  const form = await readForm(request);
   const parsed = parseForm(form, NewEvent);
   if (!parsed.ok) return parsed.response;
   const values = Object.fromEntries([...form].filter(([, v]) => typeof v === "string")) as Record<string, string>;

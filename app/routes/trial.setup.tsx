@@ -3,7 +3,7 @@ import { z } from "zod";
 import { optionalText, requiredText, statusField, TrialInput } from "~/.server/design/inputs";
 import { refusing } from "~/.server/design/respond";
 import { changeStatus, getTrial, listSitesOf, lockedMessage, STATUS_MOVES, updateTrial } from "~/.server/design/trials";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { FormMessage, SelectField, SubmitButton } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
@@ -44,7 +44,7 @@ const Describe = z.object({ title: requiredText("a title", 200), objective: opti
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "trials.edit");
-  const form = await request.formData();
+  const form = await readForm(request);
   const intent = form.get("intent");
   if (intent === "status") {
     const parsed = parseForm(form, z.object({ intent: z.literal("status"), status: statusField }));

@@ -18,7 +18,7 @@ import {
   updateTreatment,
 } from "~/.server/design/treatments";
 import { getTrial, lockedMessage } from "~/.server/design/trials";
-import { parseForm } from "~/.server/forms";
+import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { Field, FormMessage, SelectField, SubmitButton, buttonClass } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
@@ -105,7 +105,7 @@ const SAVED: Record<string, string> = {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "trials.edit");
-  const parsed = parseForm(await request.formData(), Intent);
+  const parsed = parseForm(await readForm(request), Intent);
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;
   const actor = member.user.id;

@@ -1,21 +1,10 @@
 // Every route in app/routes.ts, asked for while signed out: public routes answer, pages send
 // the visitor to sign-in, API routes answer 401 JSON. A new route is covered automatically.
 import { describe, expect, inject, it } from "vitest";
-import routes from "~/routes";
 import { ROUTE_ACCESS } from "~/route-access";
-
-type Entry = { path?: string; index?: boolean; children?: Entry[] };
-
-function flatten(entries: Entry[], parent = ""): string[] {
-  return entries.flatMap((e) => {
-    const here = e.path ? `${parent}/${e.path}`.replace(/\/+/g, "/") : parent || "/";
-    const own = e.path || e.index ? [here] : [];
-    return [...own, ...flatten(e.children ?? [], e.path ? here : parent)];
-  });
-}
+import { routePatterns as paths } from "../support/routes";
 
 const baseUrl = inject("baseUrl");
-const paths = [...new Set(flatten(routes as Entry[]))];
 const isPublic = (pattern: string) => ROUTE_ACCESS[pattern]?.kind === "public";
 // Any well-formed id will do: signed-out requests must be refused before anything is looked up.
 const concrete = (pattern: string) => pattern.replace(/:[A-Za-z]+/g, "00000000-0000-4000-8000-000000000000");
@@ -59,6 +48,23 @@ describe("web security", () => {
       expect(res.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");
       expect(res.headers.get("content-security-policy")).toContain("frame-ancestors 'none'");
     }
+  });
+
+  it("allows no inline script without the document's own nonce", async () => {
+    const scriptSrc = (csp: string | null) => (csp ?? "").split(";").map((d) => d.trim()).find((d) => d.startsWith("script-src")) ?? "";
+    const pages = await Promise.all([fetch(`${baseUrl}/`), fetch(`${baseUrl}/sign-in`)]);
+    const nonces = pages.map((res) => scriptSrc(res.headers.get("content-security-policy")).match(/'nonce-([A-Za-z0-9+/=]+)'/)?.[1]);
+    expect(nonces[0]).toBeTruthy();
+    expect(nonces[0]).not.toBe(nonces[1]); // a fresh nonce per document
+    for (const [i, res] of pages.entries()) {
+      expect(scriptSrc(res.headers.get("content-security-policy"))).not.toContain("unsafe-inline");
+      const html = await res.text();
+      const inline = [...html.matchAll(/<script\b([^>]*)>/g)].map((m) => m[1]).filter((attrs) => !/\bsrc=/.test(attrs));
+      expect(inline.length).toBeGreaterThan(0); // React Router's hydration data
+      for (const attrs of inline) expect(attrs).toContain(`nonce="${nonces[i]}"`);
+    }
+    const json = await fetch(`${baseUrl}/api/programs/x/trials`);
+    expect(scriptSrc(json.headers.get("content-security-policy"))).toBe("script-src 'self'");
   });
 
   it("refuses a form posted from another site and lets the same site through", async () => {

@@ -32,6 +32,10 @@ describe("collaborator", () => {
   it("opens results, sees one line per treatment, changes the season and downloads the ANOVA table", async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
     const page = await context.newPage();
+    // The Content-Security-Policy allows no inline script without the nonce: hydration and the
+    // charts must run without a single violation.
+    const violations: string[] = [];
+    page.on("console", (m) => m.text().includes("Content Security Policy") && violations.push(m.text()));
     await openResults(page, "collaborator@cedarhollow.example");
 
     // Means over seasons: Observable Plot draws one path per series in the line mark.
@@ -57,6 +61,7 @@ describe("collaborator", () => {
     await page.getByRole("link", { name: "All contrasts" }).click();
     await page.getByRole("heading", { name: /Saved contrasts/ }).waitFor();
     expect(await page.getByRole("button", { name: "Save contrast" }).count()).toBe(0);
+    expect(violations).toEqual([]);
     await context.close();
   });
 });
