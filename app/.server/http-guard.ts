@@ -49,12 +49,32 @@ export function crossOriginWrite(request: Request): boolean {
 
 /** Forms are small; only the lab-file upload takes a large body, and it enforces its own 20 MB cap. */
 const MAX_FORM_BYTES = 1024 * 1024;
+const MAX_DRAIN_BYTES = 32 * 1024 * 1024;
 const UPLOAD_PATH = /^\/trials\/[^/]+\/intake(\.data)?$/;
 
 /** A declared body larger than any form (a junk flood) is refused before anything reads it. */
 function oversizedForm(request: Request, path: string): boolean {
   if (SAFE_METHODS.has(request.method) || UPLOAD_PATH.test(path)) return false;
   return Number(request.headers.get("content-length") ?? 0) > MAX_FORM_BYTES;
+}
+
+/**
+ * Reads to the end, and drops, a body the route answered without reading (a refusal, a 404, a
+ * form that was too large): the sender then gets the answer, and the connection stays usable,
+ * instead of a reset while it is still sending.
+ */
+async function drainBody(request: Request): Promise<void> {
+  if (!request.body || request.bodyUsed || request.body.locked) return;
+  let read = 0;
+  try {
+    for await (const chunk of request.body) {
+      read += chunk.byteLength;
+      // Past the largest upload there is nothing worth waiting for: stop reading; the connection closes.
+      if (read > MAX_DRAIN_BYTES) break;
+    }
+  } catch {
+    /* the sender went away; nothing to answer */
+  }
 }
 
 const UNAVAILABLE_PAGE = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Tilthmark is briefly unavailable</title>
@@ -99,10 +119,12 @@ export async function guardRequest(request: Request, next: () => Promise<Respons
   if (crossOriginWrite(request)) {
     response = new Response("Refused: this form was sent from another site.", { status: 403, headers: { "Content-Type": "text/plain; charset=utf-8" } });
   } else if (oversizedForm(request, path)) {
+    await drainBody(request);
     response = new Response("Refused: this form is larger than 1 MB. Lab files go through Lab intake.", { status: 413, headers: { "Content-Type": "text/plain; charset=utf-8" } });
   } else {
     response = await requestFacts.run(facts, next);
     if (response.status === 500) response = (await outageResponse(request)) ?? response;
+    await drainBody(request);
   }
   response = withHeaders(response);
   log({ level: response.status >= 500 ? "error" : "info", method: request.method, path, status: response.status, ms: Math.round(performance.now() - started), userId: facts.userId });

@@ -1,4 +1,4 @@
-import { Form, redirect, useActionData } from "react-router";
+import { data, Form, redirect, useActionData } from "react-router";
 import { z } from "zod";
 import { AccountError, createFirstAdministrator, signInWithPassword, userCount } from "~/.server/accounts";
 import { email, invalid, newPassword, parseForm, personName, readForm } from "~/.server/forms";
@@ -19,6 +19,7 @@ const Setup = z
   .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: "The two passwords differ." });
 
 export async function action({ request }: Route.ActionArgs) {
+  if ((await userCount()) > 0) throw data("This Tilthmark install already has an administrator. Sign in instead.", { status: 409 });
   const parsed = parseForm(await readForm(request), Setup);
   if (!parsed.ok) return parsed.response;
   try {

@@ -32,6 +32,8 @@ export interface DemoRoutes {
   signInAll(): Promise<Record<Principal, string>>;
   /** md5 of every table's rows, except the sessions that signing in writes. */
   tableChecksums(): Promise<Record<string, string>>;
+  /** Rows in a table. */
+  count(table: string): Promise<number>;
   close(): Promise<void>;
 }
 
@@ -108,6 +110,7 @@ export async function demoRoutes(baseUrl: string, databaseUrl: string): Promise<
       }
       return sums;
     },
+    count: async (table) => Number((await one<{ n: string }>(`select count(*) as n from "${table}"`)).n),
     close: () => client.end(),
   };
 }
