@@ -158,3 +158,15 @@ describe("a junk file of thousands of rows as a lab upload", () => {
     expect(discard.status).toBe(302);
   });
 });
+
+describe("markup typed into a form", () => {
+  it("is shown as text, never run or rendered", async () => {
+    const markup = '<script>window.tilthmarkPwned=1</script><img src=x onerror="window.tilthmarkPwned=2">';
+    const saved = await post("/programs/:programId/sites", { body: new URLSearchParams({ name: `Site ${markup}`.slice(0, 120), notes: markup }) });
+    expect(saved.status).toBe(302);
+    const html = await (await fetch(`${baseUrl}${saved.location}`, { headers: { cookie: cookies.owner } })).text();
+    expect(html).not.toContain("<script>window.tilthmarkPwned");
+    expect(html).not.toContain("<img src=x");
+    expect(html).toContain("&lt;script&gt;window.tilthmarkPwned=1&lt;/script&gt;");
+  });
+});
