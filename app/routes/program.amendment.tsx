@@ -1,11 +1,13 @@
 import { Form, Link, redirect, useActionData, useLoaderData } from "react-router";
-import { BatchInput, createBatch, getAmendment } from "~/.server/design/amendments";
+import { z } from "zod";
+import { AmendmentInput, BatchInput, createBatch, deleteAmendment, getAmendment, updateAmendment } from "~/.server/design/amendments";
 import { refusing } from "~/.server/design/respond";
 import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
+import { AmendmentFormFields } from "~/components/amendment-form";
 import { BatchFormFields } from "~/components/batch-form";
 import { FormMessage, SubmitButton } from "~/components/form";
-import { formState } from "~/components/form-state";
+import { formState, outcomeOf } from "~/components/form-state";
 import { Caution } from "~/components/more-fields";
 import { Empty, PageHeader, Section } from "~/components/page";
 import { DEFER_TO_LOCAL, MATERIAL_LABELS, NUTRIENT_LOADING_CAUTION, PATHOGEN_HANDLING_CAUTION, PATHOGEN_MATERIALS, TEMPERATURE_LOG_MATERIALS } from "~/design/cautions";
@@ -22,20 +24,44 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { program: { id: member.programId, name: member.programName }, canEdit: roleCan(member.role, "samples.edit"), amendment };
 }
 
+const DetailsInput = AmendmentInput.extend({ intent: z.literal("update") });
+
 export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "samples.edit");
   const amendment = await getAmendment(member.programId, params.amendmentId);
   if (!amendment) notFound(request, "No such amendment in this program.");
-  const parsed = parseForm(await readForm(request), BatchInput);
-  if (!parsed.ok) return parsed.response;
-  const result = await refusing(parsed.data, () => createBatch(member.user.id, member.programId, amendment.id, parsed.data));
-  if ("id" in result) throw redirect(`/programs/${member.programId}/amendments/${amendment.id}/batches/${result.id}`);
-  return result;
+  const form = await readForm(request);
+  switch (form.get("intent")) {
+    case "update": {
+      const parsed = parseForm(form, DetailsInput);
+      if (!parsed.ok) return parsed.response;
+      const { intent: _, ...input } = parsed.data;
+      const result = await refusing(parsed.data, () => updateAmendment(member.user.id, member.programId, amendment.id, input));
+      return result ?? { ok: "Details saved." };
+    }
+    case "delete": {
+      const result = await refusing({ intent: "delete" }, () => deleteAmendment(member.user.id, member.programId, amendment.id));
+      if (result) return result;
+      throw redirect(`/programs/${member.programId}/amendments`);
+    }
+    default: {
+      // "batch", the page's main form.
+      const parsed = parseForm(form, BatchInput);
+      if (!parsed.ok) return parsed.response;
+      const result = await refusing(parsed.data, () => createBatch(member.user.id, member.programId, amendment.id, parsed.data));
+      if ("id" in result) throw redirect(`/programs/${member.programId}/amendments/${amendment.id}/batches/${result.id}`);
+      return result;
+    }
+  }
 }
 
 export default function AmendmentPage() {
   const { program, canEdit, amendment } = useLoaderData<typeof loader>();
-  const { errors, values, message } = formState(useActionData<typeof action>());
+  const result = useActionData<typeof action>();
+  const { errors, values, message } = formState(result, "batch");
+  const details = formState(result, "update");
+  const removal = formState(result, "delete");
+  const { ok } = outcomeOf(result);
   const pathogenRisk = PATHOGEN_MATERIALS.has(amendment.material);
   return (
     <>
@@ -95,6 +121,7 @@ export default function AmendmentPage() {
         {canEdit && (
           <Section title="Record a batch">
             <Form method="post" className="flex flex-col gap-4" noValidate>
+              <input type="hidden" name="intent" value="batch" />
               {message && <FormMessage>{message}</FormMessage>}
               <BatchFormFields values={values ?? {}} errors={errors} composted={TEMPERATURE_LOG_MATERIALS.has(amendment.material)} />
               <div>
@@ -104,6 +131,39 @@ export default function AmendmentPage() {
           </Section>
         )}
       </div>
+      {canEdit && (
+        <div className="mt-10 grid gap-10 lg:grid-cols-[1.4fr_1fr]">
+          <Section title="Correct the details">
+            <Form method="post" className="flex max-w-xl flex-col gap-4" noValidate>
+              <input type="hidden" name="intent" value="update" />
+              {ok && <FormMessage tone="success">{ok}</FormMessage>}
+              {details.message && <FormMessage>{details.message}</FormMessage>}
+              <AmendmentFormFields
+                values={details.values ?? { name: amendment.name, material: amendment.material, source: amendment.source ?? "", description: amendment.description ?? "" }}
+                errors={details.errors}
+              />
+              <div>
+                <SubmitButton pendingLabel="Saving…">Save details</SubmitButton>
+              </div>
+            </Form>
+          </Section>
+          <Section title="Remove">
+            {removal.message && <FormMessage>{removal.message}</FormMessage>}
+            {amendment.batches.length > 0 ? (
+              <p className="text-sm text-loam-800">
+                Amendments with batches stay on record: batches carry lab analyses and trials name them. Correct the name or material instead.
+              </p>
+            ) : (
+              <Form method="post" className="flex flex-col items-start gap-3">
+                <p className="text-sm text-loam-800">No batches are recorded, so nothing refers to this amendment. Removing it is noted in the audit log.</p>
+                <SubmitButton name="intent" value="delete" variant="secondary" pendingLabel="Removing…">
+                  Remove this amendment
+                </SubmitButton>
+              </Form>
+            )}
+          </Section>
+        </div>
+      )}
     </>
   );
 }

@@ -3,9 +3,10 @@ import { AmendmentInput, createAmendment, listAmendments } from "~/.server/desig
 import { refusing } from "~/.server/design/respond";
 import { parseForm, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
-import { buttonClass, Field, FormMessage, SelectField, SubmitButton } from "~/components/form";
+import { AmendmentFormFields } from "~/components/amendment-form";
+import { buttonClass, FormMessage, SubmitButton } from "~/components/form";
 import { formState } from "~/components/form-state";
-import { Caution, TextAreaField } from "~/components/more-fields";
+import { Caution } from "~/components/more-fields";
 import { Empty, PageHeader, Section } from "~/components/page";
 import { DEFER_TO_LOCAL, MATERIAL_LABELS, NUTRIENT_LOADING_CAUTION, PATHOGEN_HANDLING_CAUTION } from "~/design/cautions";
 import { formatNumber } from "~/format";
@@ -112,10 +113,7 @@ export default function AmendmentsPage() {
           <Section title="Add an amendment">
             <Form method="post" className="flex flex-col gap-4" noValidate>
               {message && <FormMessage>{message}</FormMessage>}
-              <Field label="Name" name="name" defaultValue={v.name} errors={errors} maxLength={120} required />
-              <SelectField label="Material" name="material" options={Object.entries(MATERIAL_LABELS).map(([value, label]) => ({ value, label }))} defaultValue={v.material ?? "compost"} errors={errors} />
-              <Field label="Source" name="source" defaultValue={v.source} errors={errors} hint="Supplier or where it was made." maxLength={300} />
-              <TextAreaField label="Description" name="description" defaultValue={v.description} errors={errors} rows={2} />
+              <AmendmentFormFields values={v} errors={errors} />
               <div>
                 <SubmitButton pendingLabel="Saving…">Add amendment</SubmitButton>
               </div>

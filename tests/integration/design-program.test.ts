@@ -133,6 +133,42 @@ describe("amendments, batches and the temperature log", () => {
   });
 });
 
+describe("correcting and removing an amendment", () => {
+  const url = (id: string) => `/programs/${programId}/amendments/${id}`;
+  const details = { intent: "update", name: "Leaf mould, 2 yr", material: "leaf_mould", source: "Municipal depot", description: "" };
+
+  it("corrects the details with the old and new values in the audit log, and refuses a name in use", async () => {
+    const created = await run(amendmentsPage.action, formPost(cookies.technician, `/programs/${programId}/amendments`, { name: "Leaf mold", material: "compost", source: "", description: "" }), { programId });
+    const id = created.location!.split("/").at(-1)!;
+    expect((await run(amendmentPage.action, formPost(cookies.collaborator, url(id), details), { programId, amendmentId: id })).status).toBe(403);
+    const saved = await run(amendmentPage.action, formPost(cookies.technician, url(id), details), { programId, amendmentId: id });
+    expect(saved.body).toEqual({ ok: "Details saved." });
+    const [row] = await db.select().from(schema.amendments).where(eq(schema.amendments.id, id));
+    expect(row).toMatchObject({ name: "Leaf mould, 2 yr", material: "leaf_mould", source: "Municipal depot" });
+    const [audit] = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entityId, id), eq(schema.auditLog.action, "update")));
+    expect(audit.details).toEqual({ name: { from: "Leaf mold", to: "Leaf mould, 2 yr" }, material: { from: "compost", to: "leaf_mould" }, source: { from: null, to: "Municipal depot" } });
+
+    const clash = await run(amendmentPage.action, formPost(cookies.technician, url(id), { ...details, name: "Poultry litter compost" }), { programId, amendmentId: id });
+    expect(clash.status).toBe(400);
+    expect((clash.body as Refusal).errors.name).toEqual(["This program already has an amendment called “Poultry litter compost”."]);
+  });
+
+  it("removes an amendment without batches, and keeps one with batches", async () => {
+    const kept = await db.select().from(schema.amendments).where(and(eq(schema.amendments.programId, programId), eq(schema.amendments.name, "Poultry litter compost")));
+    const refused = await run(amendmentPage.action, formPost(cookies.technician, url(kept[0].id), { intent: "delete" }), { programId, amendmentId: kept[0].id });
+    expect(refused.status).toBe(400);
+    expect((refused.body as Refusal).message).toMatch(/^“Poultry litter compost” has 1 batch on record, so it stays/);
+
+    const spare = await run(amendmentsPage.action, formPost(cookies.researcher, `/programs/${programId}/amendments`, { name: "Typo amendment", material: "other", source: "", description: "" }), { programId });
+    const id = spare.location!.split("/").at(-1)!;
+    const removed = await run(amendmentPage.action, formPost(cookies.researcher, url(id), { intent: "delete" }), { programId, amendmentId: id });
+    expect(removed).toMatchObject({ status: 302, location: `/programs/${programId}/amendments` });
+    expect(await db.select().from(schema.amendments).where(eq(schema.amendments.id, id))).toEqual([]);
+    const [audit] = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entityId, id), eq(schema.auditLog.action, "delete")));
+    expect(audit.details).toEqual({ name: "Typo amendment", material: "other" });
+  });
+});
+
 describe("blend calculator", () => {
   it("weights C and N by dry mass", async () => {
     const batches = await db.select().from(schema.amendmentBatches);

@@ -94,6 +94,51 @@ export async function createAmendment(actorId: string, programId: string, input:
   });
 }
 
+/** Renames or re-describes an amendment; the audit log keeps each changed field's old and new value. */
+export async function updateAmendment(actorId: string, programId: string, amendmentId: string, input: AmendmentInput) {
+  return db.transaction(async (tx) => {
+    const [before] = await tx
+      .select()
+      .from(schema.amendments)
+      .where(and(eq(schema.amendments.id, amendmentId), eq(schema.amendments.programId, programId)));
+    if (!before) throw new DesignError("No such amendment in this program.");
+    const [clash] = await tx
+      .select({ id: schema.amendments.id })
+      .from(schema.amendments)
+      .where(and(eq(schema.amendments.programId, programId), eq(schema.amendments.name, input.name)));
+    if (clash && clash.id !== amendmentId) throw new DesignError(`This program already has an amendment called “${input.name}”.`, "name");
+    await tx.update(schema.amendments).set(input).where(eq(schema.amendments.id, amendmentId));
+    const changed = (Object.keys(input) as (keyof AmendmentInput)[]).filter((k) => input[k] !== before[k]);
+    await recordAudit(
+      { programId, actorId, action: "update", entity: "amendment", entityId: amendmentId, details: Object.fromEntries(changed.map((k) => [k, { from: before[k], to: input[k] }])) },
+      tx,
+    );
+  });
+}
+
+/**
+ * Removes an amendment recorded by mistake. One with batches stays: batches carry lab analyses
+ * and may be named in trials' applications, and the record of what went on the plots must last.
+ */
+export async function deleteAmendment(actorId: string, programId: string, amendmentId: string) {
+  return db.transaction(async (tx) => {
+    const [amendment] = await tx
+      .select()
+      .from(schema.amendments)
+      .where(and(eq(schema.amendments.id, amendmentId), eq(schema.amendments.programId, programId)))
+      .for("update");
+    if (!amendment) throw new DesignError("No such amendment in this program.");
+    const batches = await tx.select({ id: schema.amendmentBatches.id }).from(schema.amendmentBatches).where(eq(schema.amendmentBatches.amendmentId, amendmentId));
+    if (batches.length > 0) {
+      throw new DesignError(
+        `“${amendment.name}” has ${batches.length} batch${batches.length === 1 ? "" : "es"} on record, so it stays: batches carry lab analyses and trials name them. Rename it instead if the name is wrong.`,
+      );
+    }
+    await tx.delete(schema.amendments).where(eq(schema.amendments.id, amendmentId));
+    await recordAudit({ programId, actorId, action: "delete", entity: "amendment", entityId: amendmentId, details: { name: amendment.name, material: amendment.material } }, tx);
+  });
+}
+
 export async function createBatch(actorId: string, programId: string, amendmentId: string, input: BatchInput) {
   return db.transaction(async (tx) => {
     const [clash] = await tx
