@@ -287,6 +287,25 @@ function seasonsInOrder(rows: readonly PlotObservation[]): string[] {
   return [...new Map([...rows].sort((a, b) => a.seasonOrder - b.seasonOrder).map((r) => [r.season, r.season])).keys()];
 }
 
+/** A season counts as measured when it has at least this share of the plots of the best-covered season. */
+export const MEASURED_SHARE = 0.8;
+
+/**
+ * The season shown when none is chosen: the latest one measured on at least four-fifths of the
+ * plots (a missing plot or two is normal; a season whose results are still arriving is not), else
+ * the latest. `skipped` names newer seasons passed over, with their plot counts, for a note.
+ */
+export function defaultSeason(rows: readonly PlotObservation[]): { season: string; skipped: { season: string; plots: number; of: number }[] } | null {
+  const seasons = seasonsInOrder(rows);
+  if (seasons.length === 0) return null;
+  const plots = new Map(seasons.map((s) => [s, new Set(rows.filter((r) => r.season === s).map((r) => r.plotNumber)).size]));
+  const most = Math.max(...plots.values());
+  const measured = seasons.filter((s) => plots.get(s)! >= MEASURED_SHARE * most);
+  const season = measured.at(-1) ?? seasons.at(-1)!;
+  const skipped = seasons.slice(seasons.indexOf(season) + 1).map((s) => ({ season: s, plots: plots.get(s)!, of: most }));
+  return { season, skipped };
+}
+
 /**
  * Analyses one variable at one depth under the requested model.
  * Throws `ResultsError` with a researcher-readable message when the request cannot be honoured.
@@ -318,11 +337,16 @@ export function fitResults(rows: readonly PlotObservation[], request: ResultsReq
   try {
     switch (request.model) {
       case "per_season": {
-        const season = request.season ?? seasonsInOrder(rows).at(-1)!;
+        const chosen = request.season ? { season: request.season, skipped: [] } : defaultSeason(rows);
+        const season = chosen?.season ?? "";
         const inSeason = rows.filter((r) => r.season === season);
         if (inSeason.length === 0) throw new ResultsError(`There are no values in season “${season}”.`);
         const anova = seasonAnova(request, inSeason);
-        return { payload: assemble(request, inSeason, anova, term, labelToCode, season), anova, term, labelToCode, analysed: inSeason };
+        const payload = assemble(request, inSeason, anova, term, labelToCode, season);
+        for (const s of chosen?.skipped ?? []) {
+          payload.notes.push(`${s.season} is not shown by default: ${s.plots} of ${s.of} plots measured so far. Choose it under Season to analyse it anyway.`);
+        }
+        return { payload, anova, term, labelToCode, analysed: inSeason };
       }
       case "split_plot_time": {
         if (request.design === "split_plot") {

@@ -1,6 +1,6 @@
 // The results composition: the right model, the same numbers as the library, and messages.
 import { describe, expect, it } from "vitest";
-import { analyzeResults, ResultsError, type PlotObservation, type ResultsRequest } from "../../analysis/results";
+import { analyzeResults, defaultSeason, ResultsError, type PlotObservation, type ResultsRequest } from "../../analysis/results";
 
 // Montgomery, DAE, Example 4.1 — 4 pressures (treatments) × 6 batches (blocks).
 const ex41 = [
@@ -157,5 +157,24 @@ describe("messages", () => {
   });
   it("refuses an unknown season", () => {
     expect(() => analyzeResults(season(ex41, "S1", 1), { ...request, season: "nope" })).toThrow("There are no values in season “nope”.");
+  });
+});
+
+describe("the season shown when none is chosen", () => {
+  const full = (label: string, order: number) => season(ex41, label, order);
+  it("is the latest season, even with a plot missing", () => {
+    const rows = [...full("2025 fall", 1), ...full("2026 fall", 2).slice(1)]; // 23 of 24 plots
+    expect(defaultSeason(rows)).toEqual({ season: "2026 fall", skipped: [] });
+  });
+
+  it("passes over a newer season whose results are still arriving, and says so", () => {
+    const arriving = full("2027 spring", 3).filter((r) => r.block <= 3); // 12 of 24 plots, blocks 1–3
+    const rows = [...full("2025 fall", 1), ...full("2026 fall", 2), ...arriving];
+    expect(defaultSeason(rows)).toEqual({ season: "2026 fall", skipped: [{ season: "2027 spring", plots: 12, of: 24 }] });
+    const payload = analyzeResults(rows, request);
+    expect(payload.season).toBe("2026 fall");
+    expect(payload.notes).toContain("2027 spring is not shown by default: 12 of 24 plots measured so far. Choose it under Season to analyse it anyway.");
+    // Chosen explicitly, it is analysed.
+    expect(analyzeResults(rows, { ...request, season: "2027 spring" }).season).toBe("2027 spring");
   });
 });

@@ -2,7 +2,7 @@
 // takes the page's selection (ResultsQuery) and says in its caption what it shows.
 import { asc, eq } from "drizzle-orm";
 import { mean, quantileSorted, sampleStandardDeviation } from "simple-statistics";
-import type { PlotObservation } from "../../../analysis/results";
+import { defaultSeason, type PlotObservation } from "../../../analysis/results";
 import { normalQqPoints, residualDiagnostics } from "../../../analysis/stats";
 import { db, schema } from "../db";
 import { contrastsView } from "./contrasts";
@@ -65,9 +65,9 @@ type Treatment = { code: string; name: string };
 
 const treatmentsOf = (data: Data): Treatment[] => data.treatments.map((t) => ({ code: t.code, name: t.name }));
 
-/** The season a one-season chart shows: the one selected, else the latest sampled. */
-function chartSeason(data: Data, query: ResultsQuery): string {
-  const season = query.season ?? data.seasons.at(-1)?.label;
+/** The season a one-season chart shows: the one selected, else the one the analysis shows by default. */
+function chartSeason(query: ResultsQuery, observations: readonly PlotObservation[]): string {
+  const season = query.season ?? defaultSeason(observations)?.season;
   if (!season) throw new ResultsError("No samples have been measured in this trial yet.");
   return season;
 }
@@ -94,8 +94,8 @@ export type PlotValuesChart = {
  */
 async function buildPlotValuesChart(trialId: string, query: ResultsQuery): Promise<PlotValuesChart> {
   const data = await trialData(trialId);
-  const season = chartSeason(data, query);
   const { selection, observations } = await selectObservations(data, query);
+  const season = chartSeason(query, observations);
   const inSeason = observations.filter((o) => o.season === season);
   if (inSeason.length === 0) throw new ResultsError(`There are no values in season “${season}”.`);
   const points = inSeason.filter((o) => o.value !== null).map((o) => ({ plotNumber: o.plotNumber, block: o.block, code: o.treatment, value: o.value as number }));
@@ -145,8 +145,8 @@ export type PlotMapChart = {
  */
 export async function plotMapChart(trialId: string, query: ResultsQuery, mode: "values" | "residuals"): Promise<PlotMapChart> {
   const data = await trialData(trialId);
-  const season = chartSeason(data, query);
   const { selection, observations } = await selectObservations(data, query);
+  const season = chartSeason(query, observations);
   const layout = await db
     .select({ plotNumber: schema.plots.plotNumber, row: schema.plots.fieldRow, column: schema.plots.fieldColumn, block: schema.blocks.number, code: schema.treatments.code })
     .from(schema.plots)
@@ -212,9 +212,10 @@ async function buildDepthProfileChart(trialId: string, query: ResultsQuery): Pro
     );
   }
   if (query.season && !data.seasons.some((s) => s.label === query.season)) throw new ResultsError(`This trial has no season “${query.season}”.`);
-  const season = chartSeason(data, query);
-  const points = data.depths.increments.flatMap((d) => {
-    const inSeason = plotObservations(data.samples, variable.id, { ...d, cumulative: false }, null).filter((o) => o.season === season && o.value !== null);
+  const byDepth = data.depths.increments.map((d) => ({ d, observations: plotObservations(data.samples, variable.id, { ...d, cumulative: false }, null) }));
+  const season = chartSeason(query, byDepth.flatMap((x) => x.observations));
+  const points = byDepth.flatMap(({ d, observations }) => {
+    const inSeason = observations.filter((o) => o.season === season && o.value !== null);
     return [...groupBy(inSeason, (o) => o.treatment)].map(([code, list]) => ({
       code,
       topCm: d.topCm,
@@ -261,13 +262,13 @@ async function buildStocksChart(trialId: string, query: ResultsQuery): Promise<S
   if (!data.variables.some((v) => v.id === "soc_stock")) {
     throw new ResultsError("SOC stocks need both LOI (or SOC) and fine-earth bulk density for the same samples; this trial has no stocks yet.");
   }
-  const season = chartSeason(data, query);
   const chosen = query.depth ? /^0-(\d+(?:\.\d+)?)$/.exec(query.depth) : null;
   const deepest = data.depths.cumulative.at(-1) ?? data.depths.increments.find((d) => d.topCm === 0);
   if (!deepest) throw new ResultsError("Stocks are compared from the surface down, and this trial has no increment starting at 0 cm.");
   const span = chosen ? `0-${chosen[1]}` : `0-${deepest.bottomCm}`;
   const fixed = await selectObservations(data, { ...query, variable: "soc_stock", depth: span });
   const esm = await selectObservations(data, { ...query, variable: "soc_stock_esm", depth: span });
+  const season = chartSeason(query, fixed.observations);
   const summarise = (observations: PlotObservation[], basis: StocksChart["points"][number]["basis"]) =>
     [...groupBy(observations.filter((o) => o.season === season && o.value !== null), (o) => o.treatment)].map(([code, list]) => ({
       code,
@@ -313,7 +314,7 @@ export type DiagnosticsChart = {
  */
 async function buildDiagnosticsChart(trialId: string, query: ResultsQuery): Promise<DiagnosticsChart> {
   const data = await trialData(trialId);
-  const season = chartSeason(data, query);
+  const season = chartSeason(query, (await selectObservations(data, query)).observations);
   const { selection, fitted } = await trialFit(trialId, { ...query, model: "per_season", season });
   const diagnostics = residualDiagnostics(fitted.anova);
   const sorted = [...diagnostics.rows].sort((a, b) => a.residual - b.residual);
