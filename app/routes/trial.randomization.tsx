@@ -1,7 +1,7 @@
 import { Form, Link, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { lockDesign, plotCount, randomize, STORED_SEED_MAX } from "~/.server/design/layout";
-import { optionalNumber, requiredNumber } from "~/.server/design/inputs";
+import { lockDesign, plotCount, randomize, samplingEventCount, STORED_SEED_MAX, unlockDesign } from "~/.server/design/layout";
+import { optionalNumber, requiredNumber, requiredText } from "~/.server/design/inputs";
 import { refusing } from "~/.server/design/respond";
 import { listFactors, listTreatments } from "~/.server/design/treatments";
 import { getTrial, lockedMessage, trialHistory } from "~/.server/design/trials";
@@ -9,6 +9,7 @@ import { parseForm, readForm } from "~/.server/forms";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { Field, FormMessage, SelectField, SubmitButton, buttonClass } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
+import { TextAreaField } from "~/components/more-fields";
 import { DESIGN_LABELS, Section } from "~/components/page";
 import { PlotMapPanel } from "~/components/plot-map-panel";
 import type { Route } from "./+types/trial.randomization";
@@ -19,11 +20,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, { trialId: params.trialId }, "trials.edit");
   const trial = await getTrial(params.trialId);
   if (!trial) notFound(request, "No such trial.");
-  const [treatments, factors, plots, history] = await Promise.all([
+  const [treatments, factors, plots, history, samplingEvents] = await Promise.all([
     listTreatments(trial.id),
     listFactors(trial.id),
     plotCount(trial.id),
     trialHistory(trial.id, 25),
+    samplingEventCount(trial.id),
   ]);
   return {
     trial: {
@@ -40,6 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     treatmentCount: treatments.length,
     factorCount: factors.length,
     plots,
+    samplingEvents,
     lockedNote: trial.status === "draft" ? null : lockedMessage(trial),
     history: history.map((h) => ({ ...h, at: h.at.toISOString() })),
     seedMax: STORED_SEED_MAX,
@@ -57,6 +60,7 @@ const Intent = z.discriminatedUnion(
       seed: optionalNumber("The seed", { min: 0, max: STORED_SEED_MAX, integer: true }),
     }),
     z.object({ intent: z.literal("lock") }),
+    z.object({ intent: z.literal("unlock"), reason: requiredText("the reason for unlocking", 500) }),
   ],
   { error: "Unknown action." },
 );
@@ -69,6 +73,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (input.intent === "lock") {
     const result = await refusing(input, () => lockDesign(member.user.id, params.trialId));
     return result instanceof Date ? { ok: "Design locked. The plots are fixed; print the plot map and application sheet for the field." } : result;
+  }
+  if (input.intent === "unlock") {
+    const result = await refusing(input, () => unlockDesign(member.user.id, params.trialId, input.reason));
+    return result ?? { ok: "Design unlocked. Correct it, randomize again if needed, and lock it before sampling." };
   }
   const { intent, ...options } = input;
   const result = await refusing(input, () => randomize(member.user.id, params.trialId, options));
@@ -83,14 +91,16 @@ const ACTION_WORDS: Record<string, string> = {
   generate: "generated",
   randomize: "randomized",
   lock: "locked",
+  unlock: "unlocked",
   "change-status": "changed status of",
 };
 
 export default function RandomizationPage() {
-  const { trial, treatmentCount, factorCount, plots, lockedNote, history, seedMax } = useLoaderData<typeof loader>();
+  const { trial, treatmentCount, factorCount, plots, samplingEvents, lockedNote, history, seedMax } = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
   const { ok, message } = outcomeOf(result);
   const rand = formState(result, "randomize");
+  const unlock = formState(result, "unlock");
   const v = rand.values ?? {};
   const draft = trial.status === "draft";
   const crd = trial.design === "crd";
@@ -166,19 +176,39 @@ export default function RandomizationPage() {
           {draft && plots > 0 && (
             <Section title="Lock the design">
               <p className="mb-3 text-sm text-loam-700">
-                Locking fixes the plots, treatments, applications and plot size for the life of the trial. Check the map first: it
-                cannot be re-randomized afterwards.
+                Locking fixes the plots, treatments, applications and plot size. Check the map first. Until the first sampling
+                event a researcher can unlock it again, with a reason; after that the layout is fixed for the life of the trial.
               </p>
               <Form
                 method="post"
                 onSubmit={(e) => {
-                  if (!confirm("Lock this design? The plots become fixed and cannot be re-randomized.")) e.preventDefault();
+                  if (!confirm("Lock this design? The plots become fixed for sampling.")) e.preventDefault();
                 }}
               >
                 <SubmitButton name="intent" value="lock" variant="danger" pendingLabel="Locking…">
                   Lock design
                 </SubmitButton>
               </Form>
+            </Section>
+          )}
+          {trial.status === "locked" && (
+            <Section title="Unlock the design">
+              {samplingEvents > 0 ? (
+                <p className="text-sm text-loam-700">
+                  Samples have been planned or taken on these plots ({samplingEvents} sampling event{samplingEvents === 1 ? "" : "s"}), so the layout stays fixed:
+                  sample codes and measurements name its plots.
+                </p>
+              ) : (
+                <Form method="post" className="flex flex-col gap-3" noValidate>
+                  <p className="text-sm text-loam-700">No sampling event yet, so the design can be reopened for a correction. The reason goes into the audit log.</p>
+                  <TextAreaField label="Reason for unlocking" name="reason" errors={unlock.errors} defaultValue={unlock.values?.reason} rows={2} />
+                  <div>
+                    <SubmitButton name="intent" value="unlock" variant="secondary" pendingLabel="Unlocking…">
+                      Unlock design
+                    </SubmitButton>
+                  </div>
+                </Form>
+              )}
             </Section>
           )}
           <Section title="History">

@@ -24,10 +24,11 @@ const run = (fn: unknown, request: Request, params: Record<string, string>) =>
 let programId: string;
 const cookies: Record<string, string> = {};
 let trialId: string;
+let demoTrialId: string;
 let ywcBatchId: string;
 
 beforeAll(async () => {
-  ({ programId } = await seedDemo());
+  ({ programId, trialId: demoTrialId } = await seedDemo());
   for (const u of demoUsers) cookies[u.role] = await cookieFor(u.email, DEMO_PASSWORD);
   const [batch] = await db.select().from(schema.amendmentBatches).where(eq(schema.amendmentBatches.label, "YWC-2025-A"));
   ywcBatchId = batch.id;
@@ -157,6 +158,26 @@ describe("randomizing and locking", () => {
     expect((await post("researcher", randomize)).status).toBe(200);
   });
 
+  it("unlocks a locked design before any sampling, for a researcher who gives a reason", async () => {
+    expect(await post("researcher", { intent: "lock" })).toMatchObject({ status: 200 });
+    expect((await post("technician", { intent: "unlock", reason: "Wrong plot size" })).status).toBe(403);
+    const noReason = await post("researcher", { intent: "unlock", reason: "  " });
+    expect(noReason.status).toBe(400);
+    expect((noReason.body as { errors: Record<string, string[]> }).errors.reason).toBeDefined();
+    const unlocked = await post("researcher", { intent: "unlock", reason: "Plot width was entered in feet" });
+    expect(unlocked.body).toEqual({ ok: "Design unlocked. Correct it, randomize again if needed, and lock it before sampling." });
+    const [trial] = await db.select().from(schema.trials).where(eq(schema.trials.id, trialId));
+    expect(trial).toMatchObject({ status: "draft", lockedAt: null, randomizationSeed: 12345 });
+    const [entry] = await db.select().from(schema.auditLog).where(and(eq(schema.auditLog.trialId, trialId), eq(schema.auditLog.action, "unlock")));
+    expect(entry.details).toEqual({ reason: "Plot width was entered in feet", seed: 12345 });
+  });
+
+  it("keeps a design locked once it has been sampled", async () => {
+    const refused = await run(randomization.action, formPost(cookies.researcher, `/trials/${demoTrialId}/randomization`, { intent: "unlock", reason: "Try" }), { trialId: demoTrialId });
+    expect(refused.status).toBe(400);
+    expect((refused.body as { message: string }).message).toMatch(/^Samples have been planned or taken on these plots \(\d+ sampling events\), so the layout stays fixed/);
+  });
+
   it("lets a researcher lock, then refuses every design change with a clear message", async () => {
     expect(await post("researcher", { intent: "lock" })).toMatchObject({ status: 200 });
     const [trial] = await db.select().from(schema.trials).where(eq(schema.trials.id, trialId));
@@ -180,6 +201,8 @@ describe("randomizing and locking", () => {
     expect(backwards.status).toBe(400);
     const running = await run(setup.action, formPost(cookies.researcher, `/trials/${trialId}/setup`, { intent: "status", status: "running" }), { trialId });
     expect(running.body).toEqual({ ok: "Status is now running." });
+    const underWay = await post("researcher", { intent: "unlock", reason: "Too late" });
+    expect((underWay.body as { message: string }).message).toBe("Only a locked trial that is not yet running can be unlocked; this one is under way, so its design stays fixed.");
   });
 
   it("recorded every change in the audit log", async () => {

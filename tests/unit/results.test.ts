@@ -168,7 +168,7 @@ describe("the season shown when none is chosen", () => {
   });
 
   it("passes over a newer season whose results are still arriving, and says so", () => {
-    const arriving = full("2027 spring", 3).filter((r) => r.block <= 3); // 12 of 24 plots, blocks 1–3
+    const arriving = full("2027 spring", 3).filter((r) => (r.block ?? 0) <= 3); // 12 of 24 plots, blocks 1–3
     const rows = [...full("2025 fall", 1), ...full("2026 fall", 2), ...arriving];
     expect(defaultSeason(rows)).toEqual({ season: "2026 fall", skipped: [{ season: "2027 spring", plots: 12, of: 24 }] });
     const payload = analyzeResults(rows, request);

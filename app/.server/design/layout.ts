@@ -108,6 +108,31 @@ export async function lockDesign(actorId: string, trialId: string) {
   });
 }
 
+/** Sampling events on a trial's plots: once there is one, its layout is fixed for good. */
+export async function samplingEventCount(trialId: string, tx: Pick<typeof db, "select"> = db): Promise<number> {
+  const [{ n }] = await tx.select({ n: count() }).from(schema.samplingEvents).where(eq(schema.samplingEvents.trialId, trialId));
+  return n;
+}
+
+/**
+ * Reopens a locked design for a correction found before anyone sampled it (a wrong plot size, a
+ * missing treatment). The reason goes into the audit log. Once a sampling event exists its sample
+ * codes and measurements name the plots, so the layout stays fixed.
+ */
+export async function unlockDesign(actorId: string, trialId: string, reason: string) {
+  return db.transaction(async (tx) => {
+    const trial = await getTrialForUpdate(tx, trialId);
+    if (trial.status === "draft") throw new DesignError("The design is not locked.");
+    if (trial.status !== "locked") throw new DesignError("Only a locked trial that is not yet running can be unlocked; this one is under way, so its design stays fixed.");
+    const events = await samplingEventCount(trialId, tx);
+    if (events > 0) {
+      throw new DesignError(`Samples have been planned or taken on these plots (${events} sampling event${events === 1 ? "" : "s"}), so the layout stays fixed: sample codes and measurements name its plots.`);
+    }
+    await tx.update(schema.trials).set({ status: "draft", lockedAt: null, updatedAt: new Date() }).where(eq(schema.trials.id, trialId));
+    await recordAudit({ programId: trial.programId, trialId, actorId, action: "unlock", entity: "layout", entityId: trialId, details: { reason, seed: trial.randomizationSeed } }, tx);
+  });
+}
+
 export async function plotCount(trialId: string): Promise<number> {
   const [{ n }] = await db.select({ n: count() }).from(schema.plots).where(eq(schema.plots.trialId, trialId));
   return n;
