@@ -21,6 +21,8 @@ import {
   type LeveledPlot,
   type MeanSeparation,
 } from "./stats";
+import { saveStudentizedRangeNodes, useStudentizedRangeNodeStore } from "./stats/studentized-range-table";
+import { studentizedRangeFileStore } from "./studentized-range-files";
 
 export interface CliOptions {
   input: string;
@@ -294,12 +296,19 @@ const processOutput: CliOutput = {
   stderr: (text) => process.stderr.write(text),
 };
 
+/** Files the tool may keep between runs; scripts/analyze.mjs puts them under build/cli. */
+export interface CliCaches {
+  /** Folder of jstat's studentized-range node values (see analysis/studentized-range-files.ts). */
+  studentizedRangeNodes?: string;
+}
+
 /** Runs the tool; returns the exit code: 0, or 1 after printing a one-line reason to stderr. */
-export function main(argv: readonly string[], output: CliOutput = processOutput): number {
+export function main(argv: readonly string[], output: CliOutput = processOutput, caches: CliCaches = {}): number {
   if (argv.includes("--help") || argv.includes("-h")) {
     output.stdout(`${USAGE}\n`);
     return 0;
   }
+  if (caches.studentizedRangeNodes) useStudentizedRangeNodeStore(studentizedRangeFileStore(caches.studentizedRangeNodes));
   try {
     const options = parseArguments(argv);
     let text: string;
@@ -315,6 +324,11 @@ export function main(argv: readonly string[], output: CliOutput = processOutput)
   } catch (error) {
     output.stderr(`${error instanceof Error ? error.message.split("\n")[0] : String(error)}\n`);
     return 1;
+  } finally {
+    if (caches.studentizedRangeNodes) {
+      saveStudentizedRangeNodes();
+      useStudentizedRangeNodeStore(null);
+    }
   }
 }
 

@@ -50,9 +50,13 @@ export interface MeanSeparation {
 }
 
 const criticalValues = new Map<string, number>();
+/** The value asked for last: every pair of a balanced family asks for it again, so no key is built. */
+let lastCritical = { method: "", alpha: Number.NaN, k: Number.NaN, df: Number.NaN, value: Number.NaN };
 
 /** q_{1−α}(k, ν) or t_{1−α/2, ν}, remembered because every pair of a balanced set asks for the same one. */
 function criticalValue(method: ComparisonMethod, alpha: number, k: number, df: number): number {
+  const lc = lastCritical;
+  if (lc.method === method && lc.alpha === alpha && lc.k === k && lc.df === df) return lc.value;
   const key = `${method}|${alpha}|${k}|${df}`;
   let value = criticalValues.get(key);
   if (value === undefined) {
@@ -60,6 +64,7 @@ function criticalValue(method: ComparisonMethod, alpha: number, k: number, df: n
     if (criticalValues.size > 10_000) criticalValues.clear();
     criticalValues.set(key, value);
   }
+  lastCritical = { method, alpha, k, df, value };
   return value;
 }
 
@@ -116,16 +121,18 @@ function separateMeanSet(set: MeanSet, fP: number | null, options: ComparisonOpt
   const alpha = options.alpha ?? 0.05;
   const protectedByF = method === "lsd" ? fP !== null && fP < alpha : null;
   const comparisons: PairwiseComparison[] = [];
-  const differs = new Map<string, boolean>();
-  for (let i = 0; i < set.means.length; i++) {
-    for (let j = i + 1; j < set.means.length; j++) {
+  const k = set.means.length;
+  /** differs[i·k + j], i < j: whether means i and j differ significantly. */
+  const differs = new Uint8Array(k * k);
+  for (let i = 0; i < k; i++) {
+    for (let j = i + 1; j < k; j++) {
       const cmp = compareTwoMeans(set, i, j, method, alpha);
       if (protectedByF === false) cmp.significant = false;
       comparisons.push(cmp);
-      differs.set(`${i},${j}`, cmp.significant);
+      differs[i * k + j] = cmp.significant ? 1 : 0;
     }
   }
-  const groups = compactLetterDisplay(set.means, (i, j) => differs.get(`${i},${j}`) ?? false);
+  const groups = compactLetterDisplay(set.means, (i, j) => differs[i * k + j] === 1);
   const halfWidths = comparisons.map((c) => c.upper - c.diff);
   const uniform =
     comparisons.length > 0 &&

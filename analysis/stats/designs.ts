@@ -222,29 +222,33 @@ export function splitPlotMeanVariance(
 ): { mainPlot: number[][]; subPlot: number[][] } {
   const sizes = mainCounts.map((counts) => counts.reduce((s, v) => s + v, 0));
   const count = mainCounts.length;
-  // Σ over cell pairs sharing a main combination: accumulated per main combination, since most
-  // means lie in one or a few of them.
-  const common = Array.from({ length: count }, () => new Array<number>(count).fill(0));
+  // Σ over cell pairs sharing a main combination, common[p·count + q]: accumulated per main
+  // combination, since most means lie in one or a few of them. `sharing` lists the pairs that
+  // share one; for two means that share none both entries are 0, which the rows start with.
+  const common = new Float64Array(count * count);
+  const sharing: number[] = [];
   const mainTotal = mainCounts[0]?.length ?? 0;
   for (let i = 0; i < mainTotal; i++) {
-    const inMain = mainCounts.flatMap((counts, p) => (counts[i] === 0 ? [] : [p]));
-    for (const p of inMain) for (const q of inMain) common[p][q] += mainCounts[p][i] * mainCounts[q][i];
-  }
-  const mainPlot: number[][] = [];
-  const subPlot: number[][] = [];
-  for (let p = 0; p < count; p++) {
-    const mainRow = new Array<number>(count);
-    const subRow = new Array<number>(count);
-    for (let q = 0; q < count; q++) {
-      const sameMain = common[p][q] / (sizes[p] * sizes[q]);
-      // The shared cells: the means partition the cells, so only a mean shares cells with itself.
-      const shared = p === q ? 1 / sizes[p] : 0;
-      mainRow[q] = sameMain / (r * b);
-      subRow[q] = (shared - sameMain / b) / r;
+    const inMain: number[] = [];
+    for (let p = 0; p < count; p++) if (mainCounts[p][i] !== 0) inMain.push(p);
+    for (const p of inMain) {
+      for (const q of inMain) {
+        if (common[p * count + q] === 0) sharing.push(p * count + q);
+        common[p * count + q] += mainCounts[p][i] * mainCounts[q][i];
+      }
     }
-    mainPlot.push(mainRow);
-    subPlot.push(subRow);
   }
+  const mainPlot = Array.from({ length: count }, () => new Array<number>(count).fill(0));
+  const subPlot = Array.from({ length: count }, () => new Array<number>(count).fill(0));
+  const setEntries = (p: number, q: number) => {
+    const sameMain = common[p * count + q] / (sizes[p] * sizes[q]);
+    // The shared cells: the means partition the cells, so only a mean shares cells with itself.
+    const shared = p === q ? 1 / sizes[p] : 0;
+    mainPlot[p][q] = sameMain / (r * b);
+    subPlot[p][q] = (shared - sameMain / b) / r;
+  };
+  for (let p = 0; p < count; p++) setEntries(p, p);
+  for (const pq of sharing) if (Math.floor(pq / count) !== pq % count) setEntries(Math.floor(pq / count), pq % count);
   return { mainPlot, subPlot };
 }
 
@@ -262,14 +266,13 @@ function splitPlotMeans(
   const levelCount = (f: string) => data.factors[f].levels.length;
   const subCount = sub.reduce((c, f) => c * levelCount(f), 1);
   const own = leastSquaresMeans(fit, factors);
-  // For each mean, how many of its cells fall in each main-plot combination.
+  // For each mean, how many of its cells fall in each main-plot combination: all the sub-plot
+  // combinations it spans where the main-plot factors it fixes agree, none elsewhere.
   const mainCombos = main.reduce<number[][]>((acc, f) => acc.flatMap((c) => data.factors[f].levels.map((_, i) => [...c, i])), [[]]);
+  const cellsPerMain = sub.reduce((c, f) => (factors.includes(f) ? c : c * levelCount(f)), 1);
+  const fixedMain = main.flatMap((f, k) => (factors.includes(f) ? [{ k, levels: data.factors[f].levels, position: factors.indexOf(f) }] : []));
   const mainCounts = own.levels.map((levels) =>
-    mainCombos.map((combo) => {
-      const fixedMain = main.every((f, k) => !factors.includes(f) || data.factors[f].levels[combo[k]] === levels[factors.indexOf(f)]);
-      if (!fixedMain) return 0;
-      return sub.reduce((c, f) => (factors.includes(f) ? c : c * levelCount(f)), 1);
-    }),
+    mainCombos.map((combo) => (fixedMain.every((m) => m.levels[combo[m.k]] === levels[m.position]) ? cellsPerMain : 0)),
   );
   const { mainPlot, subPlot } = splitPlotMeanVariance(replicates, subCount, mainCounts);
   const variance = [

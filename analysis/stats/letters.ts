@@ -37,26 +37,38 @@ function isSubset(a: MeanBits, b: MeanBits): boolean {
   return true;
 }
 
-/** Drops every column contained in another (keeping one of two equal columns). */
-function absorb(columns: MeanBits[]): MeanBits[] {
+/**
+ * Drops every column contained in another (keeping the first of equal columns). Only the columns
+ * flagged in `mayBeAbsorbed` are tested (all when it is omitted); the others are known to lie in
+ * no other column. Plain loops: this runs once per significant pair.
+ */
+function absorb(columns: MeanBits[], mayBeAbsorbed?: readonly boolean[]): MeanBits[] {
   const sizes = columns.map(size);
-  return columns.filter(
-    (col, k) => !columns.some((other, m) => m !== k && isSubset(col, other) && (sizes[k] < sizes[m] || m < k)),
-  );
+  const kept: MeanBits[] = [];
+  for (let k = 0; k < columns.length; k++) {
+    let absorbed = false;
+    if (mayBeAbsorbed === undefined || mayBeAbsorbed[k]) {
+      for (let m = 0; m < columns.length && !absorbed; m++) {
+        absorbed = m !== k && isSubset(columns[k], columns[m]) && (sizes[k] < sizes[m] || m < k);
+      }
+    }
+    if (!absorbed) kept.push(columns[k]);
+  }
+  return kept;
+}
+
+/** Whether some letter in `letters` holds mean j. */
+function anyHolds(letters: readonly MeanBits[], j: number): boolean {
+  for (let c = 0; c < letters.length; c++) if (has(letters[c], j)) return true;
+  return false;
 }
 
 /**
- * Compact letter display by Piepho's insert-and-absorb algorithm with the sweeping step
- * (Piepho 2004, J. Comput. Graph. Stat. 13:456–466): start with one letter for all means; for
- * each significantly different pair (i, j), split every letter holding both into a copy without i
- * and a copy without j, then absorb letters contained in others; finally sweep out letters a
- * mean does not need. Two means share a letter exactly when they do not differ significantly.
- *
- * `means` fixes the naming: 'a' goes to the letter of the highest mean, 'b' to the next, ….
- * Returns one letter string per mean, in the input order.
+ * The insert-and-absorb step: starting from one letter for all k means, for each significantly
+ * different pair (i, j) every letter holding both is split into a copy without i and a copy
+ * without j, and letters contained in others are absorbed.
  */
-export function compactLetterDisplay(means: readonly number[], differs: (i: number, j: number) => boolean): string[] {
-  const k = means.length;
+function insertAndAbsorb(k: number, differs: (i: number, j: number) => boolean): MeanBits[] {
   const all: MeanBits = new Uint32Array(Math.max(1, Math.ceil(k / 32)));
   for (let i = 0; i < k; i++) all[i >>> 5] |= 1 << (i & 31);
   let columns: MeanBits[] = [all];
@@ -64,27 +76,44 @@ export function compactLetterDisplay(means: readonly number[], differs: (i: numb
     for (let j = i + 1; j < k; j++) {
       if (!differs(i, j)) continue;
       const next: MeanBits[] = [];
+      const split: boolean[] = [];
       for (const col of columns) {
-        if (has(col, i) && has(col, j)) next.push(without(col, i), without(col, j));
-        else next.push(col);
+        if (has(col, i) && has(col, j)) {
+          next.push(without(col, i), without(col, j));
+          split.push(true, true);
+        } else {
+          next.push(col);
+          split.push(false);
+        }
       }
-      columns = absorb(next);
+      // After each absorption no letter lies in another; a letter left whole is not inside a
+      // copy (that would put it inside the letter the copy came from), so only copies can go.
+      columns = absorb(next, split);
     }
   }
+  return columns;
+}
 
-  // Sweep: remove mean i from a letter if every mean sharing that letter also shares another with i,
-  // and i keeps at least one letter.
+/**
+ * The sweeping step: removes mean i from a letter when every mean sharing that letter also shares
+ * another with i, and i keeps at least one letter; then drops empty and absorbed letters.
+ */
+function sweep(columns: MeanBits[], k: number): MeanBits[] {
   for (const col of columns) {
     for (const i of members(col, k)) {
       const others = columns.filter((c) => c !== col && has(c, i));
       if (others.length === 0) continue;
-      const covered = members(col, k).every((j) => j === i || others.some((c) => has(c, j)));
+      let covered = true;
+      for (let j = 0; j < k && covered; j++) if (j !== i && has(col, j)) covered = anyHolds(others, j);
       if (covered) col[i >>> 5] &= ~(1 << (i & 31));
     }
   }
-  columns = absorb(columns.filter((c) => size(c) > 0));
+  return absorb(columns.filter((c) => size(c) > 0));
+}
 
-  // 'a' for the letter holding the highest mean, then by the next-highest mean each letter holds.
+/** Letter strings per mean: 'a' for the letter holding the highest mean, then by the next-highest mean each letter holds. */
+function nameLetters(means: readonly number[], columns: readonly MeanBits[]): string[] {
+  const k = means.length;
   const rank = means.map((_, i) => i).sort((a, b) => means[b] - means[a] || a - b);
   const position = new Map(rank.map((idx, pos) => [idx, pos]));
   const ordered = columns
@@ -98,4 +127,18 @@ export function compactLetterDisplay(means: readonly number[], differs: (i: numb
     for (const pos of col) out[rank[pos]] += letterName(letter);
   });
   return out;
+}
+
+/**
+ * Compact letter display by Piepho's insert-and-absorb algorithm with the sweeping step
+ * (Piepho 2004, J. Comput. Graph. Stat. 13:456–466): start with one letter for all means; for
+ * each significantly different pair (i, j), split every letter holding both into a copy without i
+ * and a copy without j, then absorb letters contained in others; finally sweep out letters a
+ * mean does not need. Two means share a letter exactly when they do not differ significantly.
+ *
+ * `means` fixes the naming: 'a' goes to the letter of the highest mean, 'b' to the next, ….
+ * Returns one letter string per mean, in the input order.
+ */
+export function compactLetterDisplay(means: readonly number[], differs: (i: number, j: number) => boolean): string[] {
+  return nameLetters(means, sweep(insertAndAbsorb(means.length, differs), means.length));
 }

@@ -37,7 +37,7 @@ export interface LinearModelFit {
  * codes (first factor slowest), and the number of cells. Integer keys keep large balanced
  * analyses fast.
  */
-function cellIndices(data: ModelData, factors: readonly string[]): { index: Int32Array; cells: number } {
+export function cellIndices(data: ModelData, factors: readonly string[]): { index: Int32Array; cells: number } {
   const n = data.y.length;
   const index = new Int32Array(n);
   let cells = 1;
@@ -75,10 +75,10 @@ function marginalMeans(data: ModelData, factors: readonly string[]): Map<string,
     const { index, cells } = cellIndices(data, subset);
     const sums = new Float64Array(cells);
     const counts = new Float64Array(cells);
-    data.y.forEach((v, obs) => {
-      sums[index[obs]] += v;
+    for (let obs = 0; obs < data.y.length; obs++) {
+      sums[index[obs]] += data.y[obs];
       counts[index[obs]] += 1;
-    });
+    }
     out.set(subset.join(":"), { index, means: sums.map((sum, c) => sum / counts[c]) });
   }
   return out;
@@ -108,7 +108,8 @@ export function closedFormFit(data: ModelData, terms: readonly Term[]): Omit<Lin
       }));
       for (let obs = 0; obs < n; obs++) {
         let effect = 0;
-        for (const { sign, index, means: cellMeans } of subsets) effect += sign * cellMeans[index[obs]];
+        // Indexed, not for…of: this loop runs terms × subsets × observations times.
+        for (let k = 0; k < subsets.length; k++) effect += subsets[k].sign * subsets[k].means[subsets[k].index[obs]];
         ss += effect * effect;
         fitted[obs] += effect;
       }
@@ -203,8 +204,9 @@ export function fitLinearModel(
   terms: readonly Term[],
   method: FitMethod | "auto" = "auto",
 ): LinearModelFit {
-  const chosen = method === "auto" ? (isBalanced(data, terms) ? "closed-form" : "least-squares") : method;
-  if (chosen === "closed-form" && !isBalanced(data, terms)) {
+  const balanced = method !== "least-squares" && isBalanced(data, terms);
+  const chosen = method === "auto" ? (balanced ? "closed-form" : "least-squares") : method;
+  if (chosen === "closed-form" && !balanced) {
     throw new Error("closed-form sums of squares need balanced data with no missing values");
   }
   const core = chosen === "closed-form" ? closedFormFit(data, terms) : leastSquaresModelFit(data, terms);

@@ -12,24 +12,33 @@ export interface VariancePart {
  * Parts that contribute nothing are ignored, so one part returns its own df.
  */
 export function satterthwaiteDf(parts: readonly VariancePart[]): number {
-  const used = parts.filter((p) => p.variance !== 0);
-  if (used.length === 0) return Number.NaN;
-  const total = used.reduce((s, p) => s + p.variance, 0);
-  return (total * total) / used.reduce((s, p) => s + (p.variance * p.variance) / p.df, 0);
+  let total = 0;
+  let weighted = 0;
+  let used = 0;
+  for (let k = 0; k < parts.length; k++) {
+    const { variance, df } = parts[k];
+    if (variance === 0) continue;
+    total += variance;
+    weighted += (variance * variance) / df;
+    used += 1;
+  }
+  return used === 0 ? Number.NaN : (total * total) / weighted;
 }
 
 /**
- * Σ_k MS_k·q_k over the error strata of a set, where q_k is the quadratic form of the combination
- * in stratum k and `scale` its size, with Satterthwaite df when more than one stratum contributes.
+ * Stratum k's share MS_k·q_k of a variance, where q_k is the quadratic form of the combination in
+ * that stratum and `scale` its size. Rounding can leave a tiny non-zero share from a stratum the
+ * combination does not touch; that counts as none.
  */
-function overStrata(set: MeanSet, quadratic: (matrix: number[][]) => { q: number; scale: number }): { variance: number; df: number } {
-  if (set.unavailableReason) throw new Error(set.unavailableReason);
-  const parts = set.variance.map((component) => {
-    const { q, scale } = quadratic(component.matrix);
-    // Rounding can leave a tiny non-zero share from a stratum the combination does not touch.
-    return { variance: Math.abs(q) <= 1e-12 * scale ? 0 : component.ms * q, df: component.df };
-  });
-  return { variance: parts.reduce((s, p) => s + p.variance, 0), df: satterthwaiteDf(parts) };
+function stratumShare(ms: number, q: number, scale: number): number {
+  return Math.abs(q) <= 1e-12 * scale ? 0 : ms * q;
+}
+
+/** Σ of the strata's shares, with Satterthwaite df when more than one contributes. */
+function overStrata(parts: readonly VariancePart[]): { variance: number; df: number } {
+  let variance = 0;
+  for (let k = 0; k < parts.length; k++) variance += parts[k].variance;
+  return { variance, df: satterthwaiteDf(parts) };
 }
 
 /**
@@ -37,28 +46,34 @@ function overStrata(set: MeanSet, quadratic: (matrix: number[][]) => { q: number
  * with Satterthwaite df when more than one stratum contributes.
  */
 export function linearCombinationVariance(set: MeanSet, c: readonly number[]): { variance: number; df: number } {
+  if (set.unavailableReason) throw new Error(set.unavailableReason);
   const nonzero = c.flatMap((v, i) => (v === 0 ? [] : [i]));
-  return overStrata(set, (matrix) => {
+  const parts = set.variance.map(({ matrix, ms, df }) => {
     let q = 0;
     let scale = 0;
     for (const i of nonzero) {
       scale += Math.abs(matrix[i][i]) * c[i] * c[i];
       for (const j of nonzero) q += c[i] * matrix[i][j] * c[j];
     }
-    return { q, scale };
+    return { variance: stratumShare(ms, q, scale), df };
   });
+  return overStrata(parts);
 }
 
 /**
  * Variance of the difference m_i − m_j: Σ_k MS_k·(M_ii − M_ij − M_ji + M_jj), the same as
  * `linearCombinationVariance` with c = e_i − e_j without building c — the pairwise comparisons of
- * a many-treatment trial ask for it thousands of times.
+ * a many-treatment trial ask for it thousands of times, so it is written as plain loops.
  */
 export function pairDifferenceVariance(set: MeanSet, i: number, j: number): { variance: number; df: number } {
+  if (set.unavailableReason) throw new Error(set.unavailableReason);
   const lo = Math.min(i, j);
   const hi = Math.max(i, j);
-  return overStrata(set, (matrix) => ({
-    q: matrix[lo][lo] - matrix[lo][hi] - matrix[hi][lo] + matrix[hi][hi],
-    scale: Math.abs(matrix[lo][lo]) + Math.abs(matrix[hi][hi]),
-  }));
+  const parts: VariancePart[] = [];
+  for (let k = 0; k < set.variance.length; k++) {
+    const { matrix, ms, df } = set.variance[k];
+    const q = matrix[lo][lo] - matrix[lo][hi] - matrix[hi][lo] + matrix[hi][hi];
+    parts.push({ variance: stratumShare(ms, q, Math.abs(matrix[lo][lo]) + Math.abs(matrix[hi][hi])), df });
+  }
+  return overStrata(parts);
 }

@@ -2,8 +2,8 @@ import { linearRegression } from "simple-statistics";
 import { anovaRows, missingValues, observedMean, rowOf, singleStratumMeans, type AnovaResult } from "./anova-table";
 import { rcbdAnova, splitPlotAnova, type AnalysisOptions, type BlockedPlot } from "./designs";
 import { fUpperTailP } from "./distributions";
-import { fitLinearModel } from "./linear-model";
-import { crossedTerm } from "./model-data";
+import { cellIndices, fitLinearModel } from "./linear-model";
+import { crossedTerm, type ModelData } from "./model-data";
 import {
   checkLevelCount,
   checkObservedLevels,
@@ -69,9 +69,36 @@ function wholePlotNames(layout: SeasonLayout): string[] {
   return layout.block ? [layout.block, ...layout.treatments] : [unitOf(layout), ...layout.treatments];
 }
 
+/**
+ * Whether every whole plot has a value in every season — the usual case, settled on level codes
+ * before `missingPlotSeasons` builds any list: the distinct observed (whole plot, season) cells
+ * must number whole plots × seasons. In an RCBD every block × treatment combination is a whole
+ * plot, with a row or not.
+ */
+function everyPlotSeasonObserved(data: ModelData, layout: SeasonLayout): boolean {
+  const names = wholePlotNames(layout);
+  const wholePlot = cellIndices(data, names);
+  const cell = cellIndices(data, [...names, layout.season]);
+  const wholePlots = new Set<number>();
+  const observed = new Set<number>();
+  for (let obs = 0; obs < data.y.length; obs++) {
+    wholePlots.add(wholePlot.index[obs]);
+    if (Number.isFinite(data.y[obs])) observed.add(cell.index[obs]);
+  }
+  let wholePlotCount = wholePlots.size;
+  if (layout.block) {
+    // The block is the slowest digit of a whole plot's index: the rest numbers its treatment combination.
+    const combinationCells = wholePlot.cells / data.factors[layout.block].levels.length;
+    const combinations = new Set([...wholePlots].map((index) => index % combinationCells));
+    wholePlotCount = data.factors[layout.block].levels.length * combinations.size;
+  }
+  return observed.size === wholePlotCount * data.factors[layout.season].levels.length;
+}
+
 /** Every whole plot × season without a value, whole plots in order of first appearance. */
 export function missingPlotSeasons(plots: readonly LeveledPlot[], layout: SeasonLayout): MissingPlotSeason[] {
   const names = wholePlotNames(layout);
+  if (everyPlotSeasonObserved(toModelData(plots, [...names, layout.season]), layout)) return [];
   const keys = new Map(plots.map((p) => [p, JSON.stringify(names.map((n) => p.levels[n]))]));
   const key = (p: LeveledPlot) => keys.get(p)!;
   const present = new Set(plots.filter((p) => p.value !== null).map((p) => `${key(p)}|${p.levels[layout.season]}`));
@@ -115,50 +142,83 @@ export function greenhouseGeisserEpsilon(covariance: readonly (readonly number[]
   return (trace * trace) / ((k - 1) * traceSquared);
 }
 
-function meanBy<T>(items: readonly T[], key: (item: T) => string, value: (item: T) => number): Map<string, number> {
-  const sums = new Map<string, { sum: number; count: number }>();
-  for (const item of items) {
-    const cell = sums.get(key(item)) ?? { sum: 0, count: 0 };
-    cell.sum += value(item);
-    cell.count += 1;
-    sums.set(key(item), cell);
-  }
-  return new Map([...sums].map(([k, c]) => [k, c.sum / c.count]));
-}
-
 /**
  * Pooled covariance of the season values between whole plots after removing, season by season,
  * the whole-plot effects (block and treatment in an RCBD, treatment when completely randomized) —
  * the error SSCP of the multivariate whole-plot analysis over its df. Needs complete data.
  */
 export function withinPlotSeasonCovariance(plots: readonly LeveledPlot[], layout: SeasonLayout): number[][] {
-  const names = wholePlotNames(layout);
-  // Keys computed once per plot: this runs on every row of a many-season trial.
-  const plotKeys = new Map(plots.map((p) => [p, JSON.stringify(names.map((n) => p.levels[n]))]));
-  const treatmentKeys = new Map(plots.map((p) => [p, JSON.stringify(layout.treatments.map((f) => p.levels[f]))]));
-  const plotKey = (p: LeveledPlot) => plotKeys.get(p)!;
-  const treatmentKey = (p: LeveledPlot) => treatmentKeys.get(p)!;
-  const seasons = levelsOf(plots, layout.season);
-  const bySeason = new Map<string, LeveledPlot[]>(seasons.map((season) => [season, []]));
-  for (const p of plots) bySeason.get(p.levels[layout.season])!.push(p);
-  const residuals = new Map<string, number[]>();
-  for (const [si, season] of seasons.entries()) {
-    const inSeason = bySeason.get(season)!;
-    const value = (p: LeveledPlot) => p.value as number;
-    const grand = inSeason.reduce((s, p) => s + value(p), 0) / inSeason.length;
-    const tMean = meanBy(inSeason, treatmentKey, value);
-    const bMean = layout.block ? meanBy(inSeason, (p) => p.levels[layout.block!], value) : null;
-    for (const p of inSeason) {
-      const r = residuals.get(plotKey(p)) ?? new Array<number>(seasons.length).fill(0);
-      r[si] = value(p) - tMean.get(treatmentKey(p))! - (bMean ? bMean.get(p.levels[layout.block!])! - grand : 0);
-      residuals.set(plotKey(p), r);
+  return seasonCovariance(toModelData(plots, [...wholePlotNames(layout), layout.season]), layout);
+}
+
+/**
+ * `withinPlotSeasonCovariance` on coded data, such as the split-plot fit holds: per season, the
+ * residual y − ȳ_treatment − (ȳ_block − ȳ) of each whole plot (no block term when completely
+ * randomized), then S_ij = Σ_plots r_i·r_j / (whole plots − treatments − (blocks − 1)). Whole
+ * plots are summed in order of first appearance, season by season. Integer indices and flat
+ * arrays, because this runs on every row of a many-season trial.
+ */
+function seasonCovariance(data: ModelData, layout: SeasonLayout): number[][] {
+  const n = data.y.length;
+  const season = data.factors[layout.season];
+  const seasonCount = season.levels.length;
+  const block = layout.block ? data.factors[layout.block] : null;
+  const blockCount = block ? block.levels.length : 0;
+  const treatment = cellIndices(data, layout.treatments);
+  const wholePlot = cellIndices(data, wholePlotNames(layout));
+  // Observations of each season, in data order.
+  const bySeason = Array.from({ length: seasonCount }, () => [] as number[]);
+  for (let obs = 0; obs < n; obs++) bySeason[season.codes[obs]].push(obs);
+  // Whole plots numbered in order of first appearance; residuals[plot·seasons + season].
+  const plotNumber = new Map<number, number>();
+  const residuals: number[] = [];
+  const treatmentSums = new Float64Array(treatment.cells);
+  const treatmentCounts = new Float64Array(treatment.cells);
+  const blockSums = new Float64Array(blockCount);
+  const blockCounts = new Float64Array(blockCount);
+  for (let si = 0; si < seasonCount; si++) {
+    const inSeason = bySeason[si];
+    treatmentSums.fill(0);
+    treatmentCounts.fill(0);
+    blockSums.fill(0);
+    blockCounts.fill(0);
+    let total = 0;
+    for (const obs of inSeason) {
+      const y = data.y[obs];
+      total += y;
+      treatmentSums[treatment.index[obs]] += y;
+      treatmentCounts[treatment.index[obs]] += 1;
+      if (block) {
+        blockSums[block.codes[obs]] += y;
+        blockCounts[block.codes[obs]] += 1;
+      }
+    }
+    const grand = total / inSeason.length;
+    for (const obs of inSeason) {
+      let plot = plotNumber.get(wholePlot.index[obs]);
+      if (plot === undefined) {
+        plot = plotNumber.size;
+        plotNumber.set(wholePlot.index[obs], plot);
+        for (let s = 0; s < seasonCount; s++) residuals.push(0);
+      }
+      const t = treatment.index[obs];
+      const blockEffect = block ? blockSums[block.codes[obs]] / blockCounts[block.codes[obs]] - grand : 0;
+      residuals[plot * seasonCount + si] = data.y[obs] - treatmentSums[t] / treatmentCounts[t] - blockEffect;
     }
   }
-  const treatmentCount = new Set(treatmentKeys.values()).size;
-  const blockDf = layout.block ? levelsOf(plots, layout.block).length - 1 : 0;
-  const df = residuals.size - treatmentCount - blockDf;
-  const all = [...residuals.values()];
-  return seasons.map((_, i) => seasons.map((__, j) => all.reduce((s, r) => s + r[i] * r[j], 0) / df));
+  const treatmentCount = new Set(treatment.index).size;
+  const df = plotNumber.size - treatmentCount - (block ? blockCount - 1 : 0);
+  // Symmetric: each S_ij with j ≥ i is summed once and mirrored (r_i·r_j and r_j·r_i are the same double).
+  const covariance = Array.from({ length: seasonCount }, () => new Array<number>(seasonCount));
+  for (let i = 0; i < seasonCount; i++) {
+    for (let j = i; j < seasonCount; j++) {
+      let sum = 0;
+      for (let plot = 0; plot < plotNumber.size; plot++) sum += residuals[plot * seasonCount + i] * residuals[plot * seasonCount + j];
+      covariance[i][j] = sum / df;
+      covariance[j][i] = sum / df;
+    }
+  }
+  return covariance;
 }
 
 export interface SphericityCorrection {
@@ -192,7 +252,7 @@ export function seasonsAnalysis(plots: readonly LeveledPlot[], layout: SeasonLay
     sub: [layout.season],
     method: options.method,
   });
-  const epsilon = greenhouseGeisserEpsilon(withinPlotSeasonCovariance(plots, layout));
+  const epsilon = greenhouseGeisserEpsilon(seasonCovariance(result.fit.data, layout));
   const residual = rowOf(result.table, "residual");
   const adjusted = result.table
     .filter((r) => r.errorTerm === "residual" && r.f !== null)

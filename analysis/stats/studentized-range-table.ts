@@ -22,6 +22,31 @@ const COARSE_BELOW = 1e-3;
 /** Tables kept before the cache starts over (each holds at most a few hundred numbers). */
 const MAX_TABLES = 256;
 
+/**
+ * Somewhere jstat's node values can outlive the process — the command-line tool keeps them in
+ * build/cli, so a run does not pay again for the nodes the previous run computed. A stored value
+ * stands in for the one jstat call it came from, and a node is looked up only when the
+ * interpolation asks for it, so every result is the same with or without a store.
+ */
+export interface StudentizedRangeNodeStore {
+  /** jstat's CDF at the nodes kept for (nMeans, df), by node index (q = exp(index·h)); undefined when none. */
+  load(nMeans: number, df: number): ReadonlyMap<number, number> | undefined;
+  /** Keeps every node value known for (nMeans, df); called by `saveStudentizedRangeNodes`. */
+  save(nMeans: number, df: number, cdfByNode: ReadonlyMap<number, number>): void;
+}
+
+/**
+ * The cubic Hermite z(t) on one interval, t from 0 to 1: end values z0, z1 and tangents m0, m1 per
+ * interval length. A table keeps null instead where an end node is one of jstat's cut-offs (jstat
+ * is then called directly).
+ */
+interface HermiteSegment {
+  z0: number;
+  z1: number;
+  m0: number;
+  m1: number;
+}
+
 interface StudentizedRangeTable {
   nMeans: number;
   df: number;
@@ -31,11 +56,36 @@ interface StudentizedRangeTable {
   negligibleBelow: number;
   /** See lowerTailBoundary; found when first needed. */
   lowerBoundary?: number;
+  /** The cubic on each interval read so far, by its first node, for the fine and the coarse lattice. */
+  fineSegments: Map<number, HermiteSegment | null>;
+  coarseSegments: Map<number, HermiteSegment | null>;
+  /** Node values from the store, read when the table was opened. */
+  stored: ReadonlyMap<number, number> | undefined;
+  /** Whether jstat was called for a node the store did not hold. */
+  unsaved: boolean;
 }
 
 const tables = new Map<string, StudentizedRangeTable>();
 /** The table used last, with the df it was asked for: pairs of one family come in a run. */
 let last: { nMeans: number; dfExact: number; table: StudentizedRangeTable } | null = null;
+let nodeStore: StudentizedRangeNodeStore | null = null;
+
+/** Reads node values from `store` for tables opened from now on (null: none); see `saveStudentizedRangeNodes`. */
+export function useStudentizedRangeNodeStore(store: StudentizedRangeNodeStore | null): void {
+  nodeStore = store;
+}
+
+/** Hands every table that gained nodes from jstat to the store in use, with the nodes it already held. */
+export function saveStudentizedRangeNodes(): void {
+  if (!nodeStore) return;
+  for (const table of tables.values()) {
+    if (!table.unsaved) continue;
+    const cdfByNode = new Map(table.stored);
+    for (const [i, { cdf }] of table.nodes) cdfByNode.set(i, cdf);
+    nodeStore.save(table.nMeans, table.df, cdfByNode);
+    table.unsaved = false;
+  }
+}
 
 /**
  * The table for (nMeans, df), df rounded to 6 decimals: Satterthwaite df that are equal in exact
@@ -48,7 +98,16 @@ function tableFor(nMeans: number, dfExact: number): StudentizedRangeTable {
   let table = tables.get(key);
   if (!table) {
     if (tables.size >= MAX_TABLES) tables.clear(); // `last` may keep one old table alive; harmless
-    table = { nMeans, df, nodes: new Map(), negligibleBelow: Number.NEGATIVE_INFINITY };
+    table = {
+      nMeans,
+      df,
+      nodes: new Map(),
+      negligibleBelow: Number.NEGATIVE_INFINITY,
+      fineSegments: new Map(),
+      coarseSegments: new Map(),
+      stored: nodeStore?.load(nMeans, df),
+      unsaved: false,
+    };
     tables.set(key, table);
   }
   last = { nMeans, dfExact, table };
@@ -58,7 +117,11 @@ function tableFor(nMeans: number, dfExact: number): StudentizedRangeTable {
 function node(table: StudentizedRangeTable, i: number): { cdf: number; probit: number } {
   let found = table.nodes.get(i);
   if (found === undefined) {
-    const cdf = jStat.tukey.cdf(Math.exp(i * STUDENTIZED_RANGE_STEP), table.nMeans, table.df);
+    let cdf = table.stored?.get(i);
+    if (cdf === undefined) {
+      cdf = jStat.tukey.cdf(Math.exp(i * STUDENTIZED_RANGE_STEP), table.nMeans, table.df);
+      table.unsaved = true;
+    }
     found = { cdf, probit: cdf > 0 && cdf < 1 ? probitOfCdf(cdf) : Number.NaN };
     table.nodes.set(i, found);
     if (cdf <= NEGLIGIBLE_LOWER_TAIL && i > table.negligibleBelow) table.negligibleBelow = i;
@@ -101,12 +164,53 @@ export function studentizedRangeUpperPDirect(q: number, nMeans: number, df: numb
   return Math.min(1, Math.max(0, 1 - jStat.tukey.cdf(q, nMeans, df)));
 }
 
+/** Probits z at the six stencil nodes around an interval (its ends are z[2] and z[3]); reused by every call. */
+const stencil = new Float64Array(6);
+
+/**
+ * Tangent at stencil point c (2 or 3) per unit of the stencil spacing (the interval has length 1
+ * in these units): five points where all are usable, else three (next to jstat's cut-offs), else
+ * the secant.
+ */
+function stencilTangent(z: Float64Array, c: number, secant: number): number {
+  const fivePoint = (z[c - 2] - 8 * z[c - 1] + 8 * z[c + 1] - z[c + 2]) / 12;
+  if (Number.isFinite(fivePoint)) return fivePoint;
+  const threePoint = c === 2 ? (-3 * z[2] + 4 * z[3] - z[4]) / 2 : (3 * z[3] - 4 * z[2] + z[1]) / 2;
+  const central = (z[c + 1] - z[c - 1]) / 2;
+  return Number.isFinite(central) ? central : Number.isFinite(threePoint) ? threePoint : secant;
+}
+
+/** The monotone cubic between stencil points 2 and 3 (see studentizedRangeUpperPTabulated), or null next to a cut-off node. */
+function hermiteSegment(z: Float64Array): HermiteSegment | null {
+  if (Number.isNaN(z[2]) || Number.isNaN(z[3])) return null;
+  const secant = z[3] - z[2];
+  let m0 = stencilTangent(z, 2, secant);
+  let m1 = stencilTangent(z, 3, secant);
+  if (secant === 0) {
+    m0 = 0;
+    m1 = 0;
+  } else {
+    if (m0 * secant <= 0 || (z[2] - z[1]) * secant <= 0) m0 = 0;
+    if (m1 * secant <= 0 || (z[4] - z[3]) * secant <= 0) m1 = 0;
+    const alpha = m0 / secant;
+    const beta = m1 / secant;
+    const radius2 = alpha * alpha + beta * beta;
+    if (radius2 > 9) {
+      const tau = 3 / Math.sqrt(radius2);
+      m0 *= tau;
+      m1 *= tau;
+    }
+  }
+  return { z0: z[2], z1: z[3], m0, m1 };
+}
+
 /**
  * P(Q > q) of the studentized range for nMeans means and df error degrees of freedom, read from
  * a table of jstat's CDF (jstat's port of R's ptukey; Copenhaver & Holland 1988, J. Stat. Comput.
  * Simul. 30:1–15) built lazily per (nMeans, df):
  * - nodes on a fixed lattice q_i = exp(i·h), h = 1/16, each one jstat call, computed when first
- *   needed and kept, so a value depends on (q, nMeans, df) and not on which pairs came before.
+ *   needed and kept (or read from the `StudentizedRangeNodeStore` in use), so a value depends on
+ *   (q, nMeans, df) and not on which pairs came before.
  *   In the lower tail (F ≤ 1e-3 at the end of a block of four nodes) every fourth node is used:
  *   there an error δz in z moves P by only φ(z)·δz ≤ 0.0034·δz.
  * - between nodes, a cubic Hermite in (ln q, z = Φ⁻¹(F)) — on that scale the CDF is nearly a
@@ -134,40 +238,22 @@ export function studentizedRangeUpperPTabulated(q: number, nMeans: number, df: n
   const i = coarse ? cell * COARSE_STRIDE : Math.floor(u);
   // F(q) ≤ F(q_{i+stride}) ≤ 1e-9: the upper tail is 1 to within 1e-9.
   if (i + stride <= table.negligibleBelow) return 1;
-  const z = [-2, -1, 0, 1, 2, 3].map((d) => node(table, i + d * stride).probit);
-  if (i + stride <= table.negligibleBelow) return 1;
-  if (Number.isNaN(z[2]) || Number.isNaN(z[3])) return studentizedRangeUpperPDirect(q, nMeans, df);
-  const secant = z[3] - z[2];
-  // Tangents per unit of the stencil spacing (the interval has length 1 in these units): five
-  // points where all are usable, else three (next to jstat's cut-offs), else the secant.
-  const tangent = (c: number) => {
-    const fivePoint = (z[c - 2] - 8 * z[c - 1] + 8 * z[c + 1] - z[c + 2]) / 12;
-    if (Number.isFinite(fivePoint)) return fivePoint;
-    const threePoint = c === 2 ? (-3 * z[2] + 4 * z[3] - z[4]) / 2 : (3 * z[3] - 4 * z[2] + z[1]) / 2;
-    const central = (z[c + 1] - z[c - 1]) / 2;
-    return Number.isFinite(central) ? central : Number.isFinite(threePoint) ? threePoint : secant;
-  };
-  let m0 = tangent(2);
-  let m1 = tangent(3);
-  if (secant === 0) {
-    m0 = 0;
-    m1 = 0;
-  } else {
-    if (m0 * secant <= 0 || (z[2] - z[1]) * secant <= 0) m0 = 0;
-    if (m1 * secant <= 0 || (z[4] - z[3]) * secant <= 0) m1 = 0;
-    const alpha = m0 / secant;
-    const beta = m1 / secant;
-    const radius2 = alpha * alpha + beta * beta;
-    if (radius2 > 9) {
-      const tau = 3 / Math.sqrt(radius2);
-      m0 *= tau;
-      m1 *= tau;
-    }
+  // A segment is made from node values only, so one kept from an earlier call is the one this call would make.
+  const segments = coarse ? table.coarseSegments : table.fineSegments;
+  let segment = segments.get(i);
+  if (segment === undefined) {
+    const z = stencil;
+    for (let d = -2; d <= 3; d++) z[d + 2] = node(table, i + d * stride).probit;
+    if (i + stride <= table.negligibleBelow) return 1;
+    segment = hermiteSegment(z);
+    segments.set(i, segment);
   }
+  if (segment === null) return studentizedRangeUpperPDirect(q, nMeans, df);
+  const { z0, z1, m0, m1 } = segment;
   const t = (u - i) / stride;
   const t2 = t * t;
   const t3 = t2 * t;
-  const zq = (2 * t3 - 3 * t2 + 1) * z[2] + (t3 - 2 * t2 + t) * m0 + (-2 * t3 + 3 * t2) * z[3] + (t3 - t2) * m1;
+  const zq = (2 * t3 - 3 * t2 + 1) * z0 + (t3 - 2 * t2 + t) * m0 + (-2 * t3 + 3 * t2) * z1 + (t3 - t2) * m1;
   // P(Q > q) = 1 − Φ(z) = Φ(−z), from the upper tail directly.
   return Math.min(1, Math.max(0, jStat.normal.cdf(-zq, 0, 1)));
 }

@@ -164,15 +164,15 @@ function benchCommandLine(rows: readonly TrialRow[]): void {
     console.log(`command line: npm run --silent analyze -- … on ${oneDepth.length} rows (split-plot in time), wall clock`);
     const first = run("npm", ["run", "--silent", "analyze", "--", ...args]);
     const parsed = JSON.parse(first.stdout) as { anova: { source: string }[]; comparisons: unknown[] };
-    console.log(`  first run (builds build/cli/analyze.mjs if the sources changed): ${ms(first.wall)}`);
+    console.log(`  first run (rebuilds build/cli/analyze.cjs and its caches if the sources changed): ${ms(first.wall)}`);
     const runs = Array.from({ length: 7 }, () => run("npm", ["run", "--silent", "analyze", "--", ...args]));
     const walls = runs.map((r) => r.wall);
     console.log(`  next 7 runs: median ${ms(median(walls))} wall (min ${ms(Math.min(...walls))}, max ${ms(Math.max(...walls))}), median ${ms(median(runs.map((r) => r.cpu)))} CPU (target < 700 ms wall)`);
-    const direct = Array.from({ length: 5 }, () => run(process.execPath, [join(root, "build", "cli", "analyze.mjs"), ...args]));
+    const direct = Array.from({ length: 5 }, () => run(process.execPath, [join(root, "scripts", "analyze.mjs"), ...args]));
     const bare = Array.from({ length: 5 }, () => run(process.execPath, ["-e", "0"]));
     console.log("  for reference, medians of 5 (wall / CPU):");
-    console.log(`    node build/cli/analyze.mjs, without npm ${ms(median(direct.map((r) => r.wall)))} / ${ms(median(direct.map((r) => r.cpu)))}`);
-    console.log(`    an empty node process                   ${ms(median(bare.map((r) => r.wall)))} / ${ms(median(bare.map((r) => r.cpu)))}`);
+    console.log(`    node scripts/analyze.mjs, without npm ${ms(median(direct.map((r) => r.wall)))} / ${ms(median(direct.map((r) => r.cpu)))}`);
+    console.log(`    an empty node process                 ${ms(median(bare.map((r) => r.wall)))} / ${ms(median(bare.map((r) => r.cpu)))}`);
     console.log(`  (${parsed.anova.length} ANOVA rows, ${parsed.comparisons.length} comparisons in the output)`);
   } finally {
     rmSync(dir, { recursive: true, force: true });

@@ -1,5 +1,5 @@
 import { spawnSync } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -108,7 +108,7 @@ beforeAll(() => {
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-describe("built command-line tool (scripts/analyze.mjs → build/cli/analyze.mjs)", () => {
+describe("built command-line tool (scripts/analyze.mjs → build/cli/analyze.cjs)", () => {
   it("prints the JSON object of issue 5 for Montgomery, DAE Example 4.1", { timeout: 60_000 }, () => {
     const input = file("ex41.csv", ex41Csv());
     const run = runBuilt(["--input", input, "--response", "yield", "--treatment", "pressure", "--block", "batch", "--format", "json"]);
@@ -161,6 +161,28 @@ describe("built command-line tool (scripts/analyze.mjs → build/cli/analyze.mjs
       expect(run.stderr.trimEnd(), name).toMatch(reason);
       expect(run.stderr.trimEnd().split("\n"), name).toHaveLength(1);
     }
+  });
+});
+
+describe("the built tool's caches (build/cli/cache-…)", () => {
+  it("writes a V8 code cache and the studentized-range nodes on a first run and prints the same with them, and without", { timeout: 60_000 }, () => {
+    // The paper-strength data read as a split-plot in time: Tukey within seasons asks for a table.
+    const text = csv(["block", "amendment", "season", "strength"], montgomerySplitPlot.map((p) => [p.levels.rep, `M${p.levels.method}`, `S${p.levels.temperature}`, p.value]));
+    const args = ["--input", file("cached.csv", text), "--response", "strength", "--treatment", "amendment", "--block", "block", "--season", "season", "--format", "json"];
+    const first = runBuilt(args); // builds the bundle if the sources changed
+    expect(first.status).toBe(0);
+    // The bundle's first line names its build; its caches are kept under that name.
+    const build = /^\/\/ build ([\w-]+)\n/.exec(readFileSync(join(root, "build", "cli", "analyze.cjs"), "utf8"))![1];
+    const cache = join(root, "build", "cli", `cache-${build}`);
+    rmSync(cache, { recursive: true, force: true }); // as after a fresh build
+    const cold = runBuilt(args);
+    expect(existsSync(join(cache, "analyze.v8-code-cache"))).toBe(true);
+    expect(readdirSync(join(cache, "studentized-range")).filter((name) => name.endsWith(".json")).length).toBeGreaterThan(0);
+    const warm = runBuilt(args);
+    expect(cold.stderr).toBe("");
+    expect(warm.stdout).toBe(cold.stdout);
+    expect(first.stdout).toBe(cold.stdout);
+    expect(runInProcess(args).stdout).toBe(cold.stdout); // the TypeScript sources, no caches
   });
 });
 
