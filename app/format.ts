@@ -1,7 +1,16 @@
+// One formatter per number of decimals: toLocaleString with options builds a new one on every call,
+// which a results page with hundreds of numbers pays for on every render.
+const formatters = new Map<number, Intl.NumberFormat>();
+
 /** Numbers for people: fixed decimals, a real minus sign, "—" for a missing value. Shown with the `num` class. */
 export function formatNumber(value: number | null | undefined, digits = 1): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  const text = value.toLocaleString("en-US", { minimumFractionDigits: digits, maximumFractionDigits: digits });
+  let formatter = formatters.get(digits);
+  if (!formatter) {
+    formatter = new Intl.NumberFormat("en-US", { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    formatters.set(digits, formatter);
+  }
+  const text = formatter.format(value);
   return text.startsWith("-") ? `−${text.slice(1)}` : text;
 }
 

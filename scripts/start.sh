@@ -20,4 +20,4 @@ npx react-router build
 export TILTHMARK_DEMO=1 NODE_ENV=production HOST=127.0.0.1 PORT="${PORT:-3000}"
 export TILTHMARK_BASE_URL="${TILTHMARK_BASE_URL:-http://127.0.0.1:$PORT}"
 echo "[start] Tilthmark demo at $TILTHMARK_BASE_URL (accounts in README.md; mail at /dev/mailbox)" >&2
-npx react-router-serve build/server/index.js
+node server.js build/server/index.js

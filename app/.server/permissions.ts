@@ -3,7 +3,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { roleCan, type Permission, type Role } from "~/permissions";
 import { userForApiKey } from "./api-keys";
-import { noteUser } from "./request-context";
+import { noteUser, sharedRead } from "./request-context";
 import { db, schema } from "./db";
 import { getSession, type SessionUser } from "./session";
 
@@ -43,7 +43,11 @@ export function notFound(request: Request, message: string): never {
  * Signed-in user or 401. For pages that belong to no program (home, account). JSON routes under
  * /api/ also accept an `x-api-key` header, which acts with its owner's memberships and roles.
  */
-export async function requireUser(request: Request): Promise<SessionUser> {
+export function requireUser(request: Request): Promise<SessionUser> {
+  return sharedRead(request, "user", () => readUser(request));
+}
+
+async function readUser(request: Request): Promise<SessionUser> {
   const apiKey = request.headers.get("x-api-key");
   if (apiKey && isApiRequest(request)) {
     const user = await userForApiKey(apiKey);
@@ -88,19 +92,22 @@ export async function requirePermission(
   if (!condition) notFound(request, "No such trial.");
 
   // One query: the scope's program and the user's membership in it (if any).
-  const [row] = await db
-    .select({
-      programId: schema.programs.id,
-      memberId: schema.members.id,
-      role: schema.members.role,
-      programName: schema.programs.name,
-    })
-    .from(schema.programs)
-    .leftJoin(
-      schema.members,
-      and(eq(schema.members.organizationId, schema.programs.id), eq(schema.members.userId, user.id)),
-    )
-    .where(condition);
+  const scopeKey = "programId" in scope ? `program:${scope.programId}` : `trial:${scope.trialId}`;
+  const [row] = await sharedRead(request, `membership|${scopeKey}`, async () =>
+    db
+      .select({
+        programId: schema.programs.id,
+        memberId: schema.members.id,
+        role: schema.members.role,
+        programName: schema.programs.name,
+      })
+      .from(schema.programs)
+      .leftJoin(
+        schema.members,
+        and(eq(schema.members.organizationId, schema.programs.id), eq(schema.members.userId, user.id)),
+      )
+      .where(condition),
+  );
 
   if (!row) notFound(request, "trialId" in scope ? "No such trial." : "No such program.");
   if (!row.memberId || !row.role) forbidden(request, "You are not a member of this program.");

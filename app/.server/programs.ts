@@ -1,11 +1,12 @@
 // Programs, their members and invitations. Membership changes go through better-auth's
 // organization plugin (which enforces "never the last owner"); Tilthmark adds audit entries.
 import { APIError } from "better-auth/api";
-import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq } from "drizzle-orm";
 import type { Role } from "~/permissions";
 import { auth } from "./auth";
 import { recordAudit } from "./audit";
 import { db, schema } from "./db";
+import { sharedRead } from "./request-context";
 
 export class ProgramError extends Error {}
 
@@ -59,33 +60,19 @@ export async function createProgram(request: Request, actorId: string, name: str
   return program;
 }
 
-export type ProgramSummary = { id: string; name: string; role: Role; trialCount: number; memberCount: number };
+export type ProgramSummary = { id: string; name: string; role: Role };
 
-export async function listProgramsOf(userId: string): Promise<ProgramSummary[]> {
-  const rows = await db
-    .select({ id: schema.programs.id, name: schema.programs.name, role: schema.members.role })
-    .from(schema.members)
-    .innerJoin(schema.programs, eq(schema.programs.id, schema.members.organizationId))
-    .where(eq(schema.members.userId, userId))
-    .orderBy(asc(schema.programs.name));
-  if (rows.length === 0) return [];
-  const ids = rows.map((r) => r.id);
-  const trialCounts = await db
-    .select({ programId: schema.trials.programId, n: count() })
-    .from(schema.trials)
-    .where(inArray(schema.trials.programId, ids))
-    .groupBy(schema.trials.programId);
-  const memberCounts = await db
-    .select({ programId: schema.members.organizationId, n: count() })
-    .from(schema.members)
-    .where(inArray(schema.members.organizationId, ids))
-    .groupBy(schema.members.organizationId);
-  return rows.map((r) => ({
-    ...r,
-    role: r.role as Role,
-    trialCount: trialCounts.find((c) => c.programId === r.id)?.n ?? 0,
-    memberCount: memberCounts.find((c) => c.programId === r.id)?.n ?? 0,
-  }));
+/** The programs a user belongs to, with their role; read once per request (the app layout and home both show them). */
+export function listProgramsOf(request: Request, userId: string): Promise<ProgramSummary[]> {
+  return sharedRead(request, `programs-of|${userId}`, async () => {
+    const rows = await db
+      .select({ id: schema.programs.id, name: schema.programs.name, role: schema.members.role })
+      .from(schema.members)
+      .innerJoin(schema.programs, eq(schema.programs.id, schema.members.organizationId))
+      .where(eq(schema.members.userId, userId))
+      .orderBy(asc(schema.programs.name));
+    return rows.map((r) => ({ ...r, role: r.role as Role }));
+  });
 }
 
 export async function listMembers(programId: string) {

@@ -1,15 +1,22 @@
 // Limits on sign-in, password reset, invitations and lab-file uploads. Limits come from the
 // environment so tests and benchmarks can raise them. In memory: one app server keeps its own
-// counters; several servers behind a balancer each enforce the limit.
-import { RateLimiterMemory, RateLimiterRes } from "rate-limiter-flexible";
+// counters; several servers behind a balancer each enforce the limit. Under server.js's workers
+// the counters live in its primary process, so a limit holds for the server, not per worker.
+import cluster from "node:cluster";
+import { RateLimiterCluster, RateLimiterMemory, RateLimiterRes } from "rate-limiter-flexible";
 import { env } from "./env";
 
+const limiter = (keyPrefix: string, points: number) =>
+  cluster.isWorker
+    ? new RateLimiterCluster({ keyPrefix, points, duration: env.RATE_LIMIT_WINDOW_S, timeoutMs: 3_000 })
+    : new RateLimiterMemory({ points, duration: env.RATE_LIMIT_WINDOW_S });
+
 const limiters = {
-  signIn: new RateLimiterMemory({ points: env.RATE_LIMIT_SIGN_IN, duration: env.RATE_LIMIT_WINDOW_S }),
-  reset: new RateLimiterMemory({ points: env.RATE_LIMIT_RESET, duration: env.RATE_LIMIT_WINDOW_S }),
-  invite: new RateLimiterMemory({ points: env.RATE_LIMIT_INVITE, duration: env.RATE_LIMIT_WINDOW_S }),
+  signIn: limiter("sign-in", env.RATE_LIMIT_SIGN_IN),
+  reset: limiter("reset", env.RATE_LIMIT_RESET),
+  invite: limiter("invite", env.RATE_LIMIT_INVITE),
   // Per user: 60 files per 10 minutes is far above a technician's busiest afternoon.
-  upload: new RateLimiterMemory({ points: env.RATE_LIMIT_UPLOAD, duration: env.RATE_LIMIT_WINDOW_S }),
+  upload: limiter("upload", env.RATE_LIMIT_UPLOAD),
 };
 
 export type LimitKind = keyof typeof limiters;

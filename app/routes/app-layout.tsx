@@ -6,7 +6,7 @@ import type { Route } from "./+types/app-layout";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const programs = await listProgramsOf(user.id);
+  const programs = await listProgramsOf(request, user.id);
   return { user: { name: user.name, email: user.email, isAdmin: user.isAdmin }, programs };
 }
 

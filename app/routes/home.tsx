@@ -3,7 +3,7 @@ import { z } from "zod";
 import { requireAdmin, requireUser } from "~/.server/permissions";
 import { ProgramError, createProgram, listProgramsOf } from "~/.server/programs";
 import { invalid, parseForm, readForm } from "~/.server/forms";
-import { listTrials } from "~/.server/trials";
+import { listTrialsByProgram } from "~/.server/trials";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
 import { Empty, PageHeader, Section, StatusBadge, DESIGN_LABELS } from "~/components/page";
 import { ROLE_LABELS } from "~/permissions";
@@ -13,9 +13,9 @@ export const meta: Route.MetaFunction = () => [{ title: "Your programs · Tilthm
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  const programs = await listProgramsOf(user.id);
-  const withTrials = await Promise.all(programs.map(async (p) => ({ ...p, trials: await listTrials(p.id) })));
-  return { user: { name: user.name, isAdmin: user.isAdmin }, programs: withTrials };
+  const programs = await listProgramsOf(request, user.id);
+  const trials = await listTrialsByProgram(programs.map((p) => p.id));
+  return { user: { name: user.name, isAdmin: user.isAdmin }, programs: programs.map((p) => ({ ...p, trials: trials.get(p.id) ?? [] })) };
 }
 
 const NewProgram = z.object({

@@ -8,7 +8,7 @@ import type { Route } from "./+types/trial-layout";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "results.view");
-  const overview = await getTrialOverview(params.trialId);
+  const overview = await getTrialOverview(request, params.trialId);
   if (!overview) notFound(request, "No such trial.");
   return {
     program: { id: member.programId, name: member.programName },

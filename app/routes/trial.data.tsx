@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     depth: q.get("depth") || undefined,
     excludedOnly: q.get("excluded") === "1",
   };
-  const [events, overview, all] = await Promise.all([listEvents(params.trialId), getTrialOverview(params.trialId), dataRows(params.trialId, filter)]);
+  const [events, overview, all] = await Promise.all([listEvents(params.trialId), getTrialOverview(request, params.trialId), dataRows(params.trialId, filter)]);
   const pages = Math.max(1, Math.ceil(all.length / PAGE_SIZE));
   const page = Math.min(pages, Math.max(1, Number(q.get("page")) || 1));
   const depths = [...new Set(events.flatMap((e) => e.depths.map((d) => `${d.topCm}-${d.bottomCm}`)))];

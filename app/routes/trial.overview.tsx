@@ -8,7 +8,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.trial.t
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, { trialId: params.trialId }, "results.view");
-  const overview = await getTrialOverview(params.trialId);
+  const overview = await getTrialOverview(request, params.trialId);
   if (!overview) notFound(request, "No such trial.");
   const { trial, site, treatments } = overview;
   return {

@@ -46,7 +46,7 @@ export async function setup(project: TestProject) {
   execFileSync("npx", ["tsx", "scripts/seed.ts"], { env, stdio: "inherit" });
   // Node itself, not npx, so that stopping it stops the server and not only a wrapper.
   const buildDir = process.env.TILTHMARK_BUILD_DIR ?? "build";
-  server = spawn(process.execPath, ["node_modules/@react-router/serve/bin.js", `${buildDir}/server/index.js`], {
+  server = spawn(process.execPath, ["server.js", `${buildDir}/server/index.js`], {
     env,
     stdio: ["ignore", "ignore", "inherit"],
   });

@@ -39,7 +39,7 @@ export async function startAppServer(options: { port: number; databaseUrl: strin
     ...options.env,
   };
   // Node itself, not npx, so that stopping it stops the server and not only a wrapper.
-  const child = spawn(process.execPath, ["node_modules/@react-router/serve/bin.js", `${buildDir}/server/index.js`], { env, stdio: ["ignore", "ignore", "inherit"] });
+  const child = spawn(process.execPath, ["server.js", `${buildDir}/server/index.js`], { env, stdio: ["ignore", "ignore", "inherit"] });
   await waitForHealth(baseUrl, 30_000);
   return {
     baseUrl,
