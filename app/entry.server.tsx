@@ -9,7 +9,7 @@ import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import type { EntryContext } from "react-router";
 import { ServerRouter } from "react-router";
-import { contentSecurityPolicy } from "./.server/http-guard";
+import { securityHeaders } from "./.server/http-guard";
 
 export const streamTimeout = 5_000;
 
@@ -18,7 +18,7 @@ export default function handleRequest(request: Request, responseStatusCode: numb
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }
   const nonce = randomBytes(16).toString("base64");
-  responseHeaders.set("Content-Security-Policy", contentSecurityPolicy(nonce));
+  for (const [name, value] of Object.entries(securityHeaders(nonce))) responseHeaders.set(name, value);
 
   return new Promise<Response>((resolve, reject) => {
     let shellRendered = false;

@@ -18,6 +18,14 @@ export async function readForm(request: Request): Promise<FormData> {
 /** PostgreSQL text cannot hold U+0000, and no form field needs it. */
 const NUL = "\u0000";
 
+/** A 400 naming each field that holds a null character, with the values kept (minus those characters); null when none does. */
+export function nulRefusal(values: Record<string, string>) {
+  const withNul = Object.keys(values).filter((k) => values[k].includes(NUL) || k.includes(NUL));
+  if (withNul.length === 0) return null;
+  const errors = Object.fromEntries(withNul.map((k) => [k, ["This contains a null character (U+0000), which cannot be saved. Retype the value."]]));
+  return invalid(errors, Object.fromEntries(Object.entries(values).map(([k, v]) => [k.replaceAll(NUL, ""), v.replaceAll(NUL, "")])));
+}
+
 /**
  * Parses a submitted form with a zod schema. On failure returns a 400 `data` response with
  * errors keyed by field and the submitted values (secrets removed) so the form keeps them.
@@ -27,11 +35,8 @@ export function parseForm<S extends z.ZodType>(formData: FormData, schema: S) {
   for (const [key, value] of formData) {
     if (typeof value === "string") values[key] = value;
   }
-  const withNul = Object.keys(values).filter((k) => values[k].includes(NUL) || k.includes(NUL));
-  if (withNul.length > 0) {
-    const errors = Object.fromEntries(withNul.map((k) => [k, ["This contains a null character (U+0000), which cannot be saved. Retype the value."]]));
-    return { ok: false as const, response: invalid(errors, Object.fromEntries(Object.entries(values).map(([k, v]) => [k, v.replaceAll(NUL, "")]))) };
-  }
+  const nul = nulRefusal(values);
+  if (nul) return { ok: false as const, response: nul };
   const result = schema.safeParse(values);
   if (result.success) return { ok: true as const, data: result.data as z.output<S> };
   return { ok: false as const, response: invalid(z.flattenError(result.error).fieldErrors, values) };

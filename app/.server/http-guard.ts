@@ -28,14 +28,21 @@ export function contentSecurityPolicy(nonce?: string): string {
   ].join("; ");
 }
 
-const SECURITY_HEADERS: Record<string, string> = {
-  "X-Content-Type-Options": "nosniff",
-  "Referrer-Policy": "strict-origin-when-cross-origin",
-  "X-Frame-Options": "DENY",
-  "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
-  // Documents set their own, with a nonce (app/entry.server.tsx); this one is for everything else.
-  "Content-Security-Policy": contentSecurityPolicy(),
-};
+/**
+ * The headers every response carries. HTML documents get them from app/entry.server.tsx with their
+ * nonce (that also covers pages no route matched, which skip the middleware); everything else here.
+ */
+export function securityHeaders(nonce?: string): Record<string, string> {
+  return {
+    "X-Content-Type-Options": "nosniff",
+    "Referrer-Policy": "strict-origin-when-cross-origin",
+    "X-Frame-Options": "DENY",
+    "Permissions-Policy": "camera=(), microphone=(), geolocation=()",
+    "Content-Security-Policy": contentSecurityPolicy(nonce),
+  };
+}
+
+const SECURITY_HEADERS = securityHeaders();
 
 /** A write from another site (a forged form post) is refused; requests without Origin are not browsers' cross-site posts. */
 export function crossOriginWrite(request: Request): boolean {

@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Form, Link, redirect, useActionData, useLoaderData, useSearchParams } from "react-router";
-import { invalid, readForm } from "~/.server/forms";
+import { invalid, nulRefusal, readForm } from "~/.server/forms";
 import { requirePermission } from "~/.server/permissions";
 import { addPreset, contrastsView, deleteContrast, saveContrast } from "~/.server/results/contrasts";
 import { parseResultsQuery, ResultsError, ResultsQuery, trialData } from "~/.server/results/service";
@@ -46,6 +46,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "trials.edit");
   const form = await readForm(request);
   const values = Object.fromEntries([...form].filter((e): e is [string, string] => typeof e[1] === "string"));
+  const nul = nulRefusal(values);
+  if (nul) return nul;
   const back = (saved: string) => {
     const search = new URL(request.url).searchParams;
     search.set("saved", saved);
@@ -87,7 +89,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       }
     }
     case "delete": {
-      const deleted = await deleteContrast(params.trialId, actor, values.contrastId ?? "");
+      const contrastId = values.contrastId ?? "";
+      const deleted = /^[0-9a-f-]{36}$/i.test(contrastId) ? await deleteContrast(params.trialId, actor, contrastId) : null;
       if (!deleted) return invalid({}, values, "That contrast was already deleted.");
       return back(`Deleted “${deleted}”.`);
     }

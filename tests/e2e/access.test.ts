@@ -42,7 +42,7 @@ describe("signed-out access to every route", () => {
 
 describe("web security", () => {
   it("sends security headers with pages and JSON", async () => {
-    for (const path of ["/", "/api/programs/x/trials"]) {
+    for (const path of ["/", "/api/programs/x/trials", "/no-such-page"]) {
       const res = await fetch(`${baseUrl}${path}`, { redirect: "manual" });
       expect(res.headers.get("x-content-type-options")).toBe("nosniff");
       expect(res.headers.get("referrer-policy")).toBe("strict-origin-when-cross-origin");

@@ -16,6 +16,15 @@ let checksumsBefore: Record<string, string>;
 beforeAll(async () => {
   demo = await demoRoutes(baseUrl, inject("databaseUrl"));
   cookies = await demo.signInAll();
+  // Pages show some forms only when there is something to act on (a saved contrast's delete
+  // button): make sure there is, whatever the journeys before this file did.
+  const preset = await fetch(demo.urlFor("/trials/:trialId/results/contrasts"), {
+    method: "POST",
+    body: new URLSearchParams({ intent: "preset", preset: "vs-check" }),
+    redirect: "manual",
+    headers: { Origin: baseUrl, cookie: cookies.researcher },
+  });
+  expect(preset.status).toBe(302);
   checksumsBefore = await demo.tableChecksums();
 });
 

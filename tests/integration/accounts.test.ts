@@ -62,7 +62,8 @@ describe("first-run setup", () => {
       password: "correct-horse-battery",
       confirmPassword: "correct-horse-battery",
     });
-    expect(result.status).toBe(400);
+    expect(result.status).toBe(409);
+    expect(result.body).toBe("This Tilthmark install already has an administrator. Sign in instead.");
     expect(await db.select().from(schema.users)).toHaveLength(before.length);
   });
 });
