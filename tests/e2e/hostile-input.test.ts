@@ -12,12 +12,14 @@ const baseUrl = inject("baseUrl");
 let demo: DemoRoutes;
 let cookies: Record<Principal, string>;
 let checksumsBefore: Record<string, string>;
+let contrastsBefore: string[] = [];
 
 beforeAll(async () => {
   demo = await demoRoutes(baseUrl, inject("databaseUrl"));
   cookies = await demo.signInAll();
   // Pages show some forms only when there is something to act on (a saved contrast's delete
-  // button): make sure there is, whatever the journeys before this file did.
+  // button): make sure there is, whatever the journeys before this file did. Removed afterwards.
+  contrastsBefore = await demo.trialRowIds("contrast");
   const preset = await fetch(demo.urlFor("/trials/:trialId/results/contrasts"), {
     method: "POST",
     body: new URLSearchParams({ intent: "preset", preset: "vs-check" }),
@@ -29,6 +31,16 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  // The contrasts added above are deleted as a researcher would, so later journeys see the demo as seeded.
+  for (const contrastId of (await demo.trialRowIds("contrast")).filter((id) => !contrastsBefore.includes(id))) {
+    await fetch(demo.urlFor("/trials/:trialId/results/contrasts"), {
+      method: "POST",
+      body: new URLSearchParams({ intent: "delete", contrastId }),
+      redirect: "manual",
+      headers: { Origin: baseUrl, cookie: cookies.researcher },
+    });
+  }
+  expect(await demo.trialRowIds("contrast")).toEqual(contrastsBefore);
   await demo?.close();
 });
 

@@ -34,6 +34,8 @@ export interface DemoRoutes {
   tableChecksums(): Promise<Record<string, string>>;
   /** Rows in a table. */
   count(table: string): Promise<number>;
+  /** Ids of the rows of a table that belong to the demo trial. */
+  trialRowIds(table: string): Promise<string[]>;
   close(): Promise<void>;
 }
 
@@ -110,6 +112,7 @@ export async function demoRoutes(baseUrl: string, databaseUrl: string): Promise<
       }
       return sums;
     },
+    trialRowIds: async (table) => (await client.query<{ id: string }>(`select id from "${table}" where trial_id = $1 order by id`, [ids.trialId])).rows.map((r) => r.id),
     count: async (table) => Number((await one<{ n: string }>(`select count(*) as n from "${table}"`)).n),
     close: () => client.end(),
   };
