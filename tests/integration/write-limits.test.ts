@@ -1,9 +1,11 @@
 // Lab-file uploads are rate-limited per person (RATE_LIMIT_UPLOAD per window; 60 per 10 minutes by
-// default, see app/.server/env.ts). This file lowers the limit to 3 before the app's modules load.
+// default) and invitations per inviting owner (RATE_LIMIT_INVITE; 30), see app/.server/env.ts.
+// This file lowers the limits to 3 uploads and 2 invitations before the app's modules load.
 import { vi } from "vitest";
 
 vi.hoisted(() => {
   process.env.RATE_LIMIT_UPLOAD = "3";
+  process.env.RATE_LIMIT_INVITE = "2";
 });
 
 import { eq } from "drizzle-orm";
@@ -11,11 +13,13 @@ import { beforeAll, expect, it } from "vitest";
 import { db, schema } from "~/.server/db";
 import { seedDemo } from "~/.server/seed";
 import { action as intakeAction } from "~/routes/trial.intake";
+import { action as membersAction } from "~/routes/program.members";
 import { DEMO_PASSWORD, demoUsers } from "../../datasets/demo/scenario";
 import { uploadRequest } from "../support/intake";
-import { cookieFor, outcome } from "../support/sessions";
+import { cookieFor, formPost, outcome } from "../support/sessions";
 
 let trialId: string;
+let programId: string;
 const cookies: Record<string, string> = {};
 const uploadsKept = async () => (await db.select({ id: schema.uploads.id }).from(schema.uploads).where(eq(schema.uploads.trialId, trialId))).length;
 const upload = (role: string, n: number) =>
@@ -24,7 +28,7 @@ const upload = (role: string, n: number) =>
   );
 
 beforeAll(async () => {
-  ({ trialId } = await seedDemo());
+  ({ trialId, programId } = await seedDemo());
   for (const u of demoUsers) cookies[u.role] = await cookieFor(u.email, DEMO_PASSWORD);
 });
 
@@ -41,4 +45,22 @@ it("refuses a person's fourth upload in the window with a sentence saying when t
   // Another person is not affected.
   expect((await upload("researcher", 0)).status).toBe(302);
   expect(await uploadsKept()).toBe(kept + 1);
+});
+
+it("refuses an owner's third invitation in the window and sends nothing for it", async () => {
+  const invite = (n: number) =>
+    outcome(() =>
+      membersAction({
+        request: formPost(cookies.owner, `/programs/${programId}/members`, { intent: "invite", email: `field-hand-${n}@uni.example`, role: "technician" }),
+        params: { programId },
+        context: {},
+      } as never),
+    );
+  const invitations = async () => (await db.select({ id: schema.invitations.id }).from(schema.invitations)).length;
+  for (const n of [1, 2]) expect((await invite(n)).body).toEqual({ ok: `Invitation sent to field-hand-${n}@uni.example as technician.` });
+  const before = await invitations();
+  const blocked = await invite(3);
+  expect(blocked.status).toBe(400);
+  expect((blocked.body as { message: string }).message).toMatch(/^Too many attempts\. Please wait \d+ minutes? and try again\.$/);
+  expect(await invitations()).toBe(before);
 });
