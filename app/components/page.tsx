@@ -73,3 +73,30 @@ export const DESIGN_LABELS: Record<string, string> = {
   factorial_rcbd: "Factorial in RCBD",
   split_plot: "Split-plot",
 };
+
+/** Previous/next links under a paged table, with "Page n of m" (and an optional note after it). */
+export function Pager({
+  page,
+  pages,
+  href,
+  labels = ["← Previous", "Next →"],
+  note,
+}: {
+  page: number;
+  pages: number;
+  href: (page: number) => string;
+  labels?: [string, string];
+  note?: ReactNode;
+}) {
+  if (pages <= 1) return null;
+  return (
+    <nav aria-label="Pages" className="mt-4 flex items-center gap-3 text-sm">
+      {page > 1 && <Link to={href(page - 1)}>{labels[0]}</Link>}
+      <span>
+        Page <span className="num">{page}</span> of <span className="num">{pages}</span>
+        {note}
+      </span>
+      {page < pages && <Link to={href(page + 1)}>{labels[1]}</Link>}
+    </nav>
+  );
+}

@@ -1,8 +1,8 @@
-import { Form, Link, useLoaderData } from "react-router";
+import { Form, useLoaderData } from "react-router";
 import { requirePermission } from "~/.server/permissions";
 import { actionLabel, auditFilterChoices, describeDetails, listAuditEntries } from "~/.server/intake/audit-log";
 import { buttonClass } from "~/components/form";
-import { Empty } from "~/components/page";
+import { Empty, Pager } from "~/components/page";
 import type { Route } from "./+types/trial.audit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Audit log · Tilthmark" }];
@@ -119,15 +119,7 @@ export default function AuditPage() {
           </table>
         </div>
       )}
-      {d.pages > 1 && (
-        <nav aria-label="Pages" className="mt-4 flex items-center gap-3 text-sm">
-          {d.page > 1 && <Link to={pageHref(d.page - 1)}>← Newer</Link>}
-          <span>
-            Page <span className="num">{d.page}</span> of <span className="num">{d.pages}</span>
-          </span>
-          {d.page < d.pages && <Link to={pageHref(d.page + 1)}>Older →</Link>}
-        </nav>
-      )}
+      <Pager page={d.page} pages={d.pages} href={pageHref} labels={["← Newer", "Older →"]} />
     </>
   );
 }

@@ -4,7 +4,7 @@ import { DATA_COLUMNS, dataRows } from "~/.server/intake/data-table";
 import { listEvents } from "~/.server/intake/events";
 import { getTrialOverview } from "~/.server/trials";
 import { FormMessage, buttonClass } from "~/components/form";
-import { Empty } from "~/components/page";
+import { Empty, Pager } from "~/components/page";
 import { formatNumber } from "~/format";
 import { roleCan } from "~/permissions";
 import type { Route } from "./+types/trial.data";
@@ -183,15 +183,7 @@ export default function DataPage() {
           </table>
         </div>
       )}
-      {d.pages > 1 && (
-        <nav aria-label="Pages" className="mt-4 flex items-center gap-3 text-sm">
-          {d.page > 1 && <Link to={pageHref(d.page - 1)}>← Previous</Link>}
-          <span>
-            Page <span className="num">{d.page}</span> of <span className="num">{d.pages}</span>
-          </span>
-          {d.page < d.pages && <Link to={pageHref(d.page + 1)}>Next →</Link>}
-        </nav>
-      )}
+      <Pager page={d.page} pages={d.pages} href={pageHref} />
     </>
   );
 }

@@ -9,7 +9,7 @@ import { commitUpload, discardUpload, reviewUpload, saveColumnMapping } from "~/
 import { FormMessage, SubmitButton, buttonClass } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
 import { Caution, CheckboxField } from "~/components/more-fields";
-import { Section } from "~/components/page";
+import { Pager, Section } from "~/components/page";
 import { formatNumber } from "~/format";
 import type { Route } from "./+types/trial.intake.review";
 
@@ -325,15 +325,17 @@ export default function ReviewPage() {
               </tbody>
             </table>
           </div>
-          {d.pages > 1 && (
-            <nav aria-label="Pages" className="mt-4 flex items-center gap-3 text-sm">
-              {d.page > 1 && <Link to={pageLink(d.trialId, upload.id, d.page - 1, d.problemsOnly)}>← Previous</Link>}
-              <span>
-                Page <span className="num">{d.page}</span> of <span className="num">{d.pages}</span> (<span className="num">{d.total}</span> rows)
-              </span>
-              {d.page < d.pages && <Link to={pageLink(d.trialId, upload.id, d.page + 1, d.problemsOnly)}>Next →</Link>}
-            </nav>
-          )}
+          <Pager
+            page={d.page}
+            pages={d.pages}
+            href={(p) => pageLink(d.trialId, upload.id, p, d.problemsOnly)}
+            note={
+              <>
+                {" "}
+                (<span className="num">{d.total}</span> rows)
+              </>
+            }
+          />
         </>
       )}
       {!waiting && !counts && d.missing.length === 0 && (
