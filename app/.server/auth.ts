@@ -12,6 +12,12 @@ import { env } from "./env";
 import { sendInvitationMail, sendPasswordResetMail } from "./mail";
 
 // better-auth's own statements (needed by its member and invitation endpoints) plus ours.
+/**
+ * Sessions last 14 days; one used more than a day after its last refresh is extended (better-auth
+ * writes the new expiry and sets the cookie again).
+ */
+export const SESSION_TIMES = { expiresIn: 60 * 60 * 24 * 14, updateAge: 60 * 60 * 24 };
+
 const statements = {
   ...defaultStatements,
   tilthmark: Object.keys(PERMISSIONS) as Permission[],
@@ -69,7 +75,7 @@ export const auth = betterAuth({
       notifyBriefs: { type: "boolean", defaultValue: true, input: false },
     },
   },
-  session: { expiresIn: 60 * 60 * 24 * 14, updateAge: 60 * 60 * 24 },
+  session: SESSION_TIMES,
   // Tilthmark applies its own limits in its actions (app/.server/rate-limit.ts).
   rateLimit: { enabled: false },
   advanced: { useSecureCookies: env.TILTHMARK_BASE_URL.startsWith("https://") },

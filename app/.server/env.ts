@@ -14,6 +14,8 @@ const schema = z.object({
   RATE_LIMIT_UPLOAD: z.coerce.number().int().positive().default(60),
   RATE_LIMIT_WINDOW_S: z.coerce.number().int().positive().default(600),
   INVITATION_TTL_HOURS: z.coerce.number().positive().default(72),
+  /** Memory per server process for rendered responses (app/.server/response-cache.ts); 0 turns the cache off. */
+  RESPONSE_CACHE_MB: z.coerce.number().int().nonnegative().default(64),
 });
 
 const parsed = schema.parse(process.env);

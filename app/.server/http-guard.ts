@@ -3,7 +3,8 @@
 // (method, path, status, ms, user id — never bodies, passwords, tokens or keys).
 import { databaseReachable } from "./db";
 import { env } from "./env";
-import { requestFacts } from "./request-context";
+import { type RequestFacts, requestFacts } from "./request-context";
+import { recentWriteCookie } from "./response-cache";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
@@ -101,14 +102,19 @@ async function outageResponse(request: Request): Promise<Response | null> {
   return new Response(UNAVAILABLE_PAGE, { status: 503, headers: { ...headers, "Content-Type": "text/html; charset=utf-8" } });
 }
 
-function withHeaders(response: Response): Response {
+/** The security headers, and the recent-write cookie when given, on a response. */
+function withHeaders(response: Response, setCookie?: string): Response {
+  const apply = (headers: Headers) => {
+    for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!headers.has(k)) headers.set(k, v);
+    if (setCookie) headers.append("Set-Cookie", setCookie);
+  };
   try {
-    for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!response.headers.has(k)) response.headers.set(k, v);
+    apply(response.headers);
     return response;
   } catch {
     // Immutable headers (e.g. a fetched response): copy into a new Response.
     const copy = new Response(response.body, response);
-    for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!copy.headers.has(k)) copy.headers.set(k, v);
+    apply(copy.headers);
     return copy;
   }
 }
@@ -121,7 +127,7 @@ function log(entry: Record<string, unknown>) {
 export async function guardRequest(request: Request, next: () => Promise<Response>): Promise<Response> {
   const started = performance.now();
   const path = new URL(request.url).pathname;
-  const facts = { userId: null as string | null };
+  const facts: RequestFacts = { userId: null };
   let response: Response;
   if (crossOriginWrite(request)) {
     response = new Response("Refused: this form was sent from another site.", { status: 403, headers: { "Content-Type": "text/plain; charset=utf-8" } });
@@ -133,7 +139,8 @@ export async function guardRequest(request: Request, next: () => Promise<Respons
     if (response.status === 500) response = (await outageResponse(request)) ?? response;
     await drainBody(request);
   }
-  response = withHeaders(response);
-  log({ level: response.status >= 500 ? "error" : "info", method: request.method, path, status: response.status, ms: Math.round(performance.now() - started), userId: facts.userId });
+  // Whoever just wrote reads past the response cache for a few seconds.
+  response = withHeaders(response, SAFE_METHODS.has(request.method) ? undefined : recentWriteCookie());
+  log({ level: response.status >= 500 ? "error" : "info", method: request.method, path, status: response.status, ms: Math.round(performance.now() - started), userId: facts.userId, cache: facts.cache });
   return response;
 }

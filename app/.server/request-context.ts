@@ -2,13 +2,26 @@
 // and reads that the loaders of one page share.
 import { AsyncLocalStorage } from "node:async_hooks";
 
-export type RequestFacts = { userId: string | null; shared?: Map<string, Promise<unknown>> };
+export type RequestFacts = {
+  userId: string | null;
+  shared?: Map<string, Promise<unknown>>;
+  /** Until when the request's session is good as it stands (ms since epoch): it expires, or is due a refresh. */
+  sessionGoodUntil?: number;
+  /** Whether the response came from the response cache (app/.server/response-cache.ts), for the log. */
+  cache?: "hit" | "miss";
+};
 
 export const requestFacts = new AsyncLocalStorage<RequestFacts>();
 
 export function noteUser(userId: string) {
   const facts = requestFacts.getStore();
   if (facts) facts.userId = userId;
+}
+
+/** The request acts through a browser session that stays good as it is until `goodUntil` (ms). */
+export function noteSession(goodUntil: number) {
+  const facts = requestFacts.getStore();
+  if (facts) facts.sessionGoodUntil = goodUntil;
 }
 
 const READ_ONLY = new Set(["GET", "HEAD"]);

@@ -1,7 +1,11 @@
 import { requirePermission } from "~/.server/permissions";
 import { seasonMeansChart } from "~/.server/results/charts";
 import { parseResultsQuery, ResultsError } from "~/.server/results/service";
+import { cacheResponse } from "~/.server/response-cache";
 import type { Route } from "./+types/api.trial-chart-season-means";
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 /** Treatment means ± SE over seasons for the selected variable and depth (shape: `SeasonMeansChart`). */
 export async function loader({ request, params }: Route.LoaderArgs) {

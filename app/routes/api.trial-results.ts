@@ -1,6 +1,10 @@
 import { requirePermission } from "~/.server/permissions";
 import { parseResultsQuery, ResultsError, trialResults } from "~/.server/results/service";
+import { cacheResponse } from "~/.server/response-cache";
 import type { Route } from "./+types/api.trial-results";
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 /** The analysis of one selection as JSON (shape: `ResultsView` in app/.server/results/service.ts). */
 export async function loader({ request, params }: Route.LoaderArgs) {

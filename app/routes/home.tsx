@@ -4,12 +4,16 @@ import { requireAdmin, requireUser } from "~/.server/permissions";
 import { ProgramError, createProgram, listProgramsOf } from "~/.server/programs";
 import { invalid, parseForm, readForm } from "~/.server/forms";
 import { listTrialsByProgram } from "~/.server/trials";
+import { cacheResponse } from "~/.server/response-cache";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
 import { Empty, PageHeader, Section, StatusBadge, DESIGN_LABELS } from "~/components/page";
 import { ROLE_LABELS } from "~/permissions";
 import type { Route } from "./+types/home";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your programs · Tilthmark" }];
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);

@@ -3,12 +3,16 @@ import { requirePermission } from "~/.server/permissions";
 import { listBriefs } from "~/.server/briefs";
 import { listMembers } from "~/.server/programs";
 import { listSites, listTrials } from "~/.server/trials";
+import { cacheResponse } from "~/.server/response-cache";
 import { buttonClass } from "~/components/form";
 import { DESIGN_LABELS, Empty, PageHeader, Section, StatusBadge } from "~/components/page";
 import { ROLE_LABELS, roleCan } from "~/permissions";
 import type { Route } from "./+types/program";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.program.name ?? "Program"} · Tilthmark` }];
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const member = await requirePermission(request, { programId: params.programId }, "briefs.view");

@@ -1,10 +1,14 @@
 import { useLoaderData } from "react-router";
 import { notFound, requirePermission } from "~/.server/permissions";
 import { getTrialOverview } from "~/.server/trials";
+import { cacheResponse } from "~/.server/response-cache";
 import { DESIGN_LABELS, Section } from "~/components/page";
 import type { Route } from "./+types/trial.overview";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.trial.title ?? "Trial"} · Tilthmark` }];
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, { trialId: params.trialId }, "results.view");

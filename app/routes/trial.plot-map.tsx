@@ -2,11 +2,15 @@ import { useLoaderData } from "react-router";
 import { plotCount } from "~/.server/design/layout";
 import { getTrial } from "~/.server/design/trials";
 import { notFound, requirePermission } from "~/.server/permissions";
+import { cacheResponse } from "~/.server/response-cache";
 import { buttonClass } from "~/components/form";
 import { PlotMapPanel } from "~/components/plot-map-panel";
 import type { Route } from "./+types/trial.plot-map";
 
 export const meta: Route.MetaFunction = () => [{ title: "Plot map · Tilthmark" }];
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePermission(request, { trialId: params.trialId }, "results.view");

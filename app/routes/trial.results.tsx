@@ -2,6 +2,7 @@ import { Form, Link, useLoaderData, useNavigation, useSubmit } from "react-route
 import { requirePermission } from "~/.server/permissions";
 import { contrastsView } from "~/.server/results/contrasts";
 import { parseResultsQuery, ResultsError, trialData, trialResults, type ResultsView } from "~/.server/results/service";
+import { cacheResponse } from "~/.server/response-cache";
 import { ContrastsTable, OrthogonalityNote } from "~/components/contrasts-table";
 import { buttonClass, FormMessage } from "~/components/form";
 import { Empty, Section } from "~/components/page";
@@ -14,6 +15,9 @@ import packageJson from "../../package.json";
 import type { Route } from "./+types/trial.results";
 
 export const meta: Route.MetaFunction = () => [{ title: "Results · Tilthmark" }];
+
+// Read-only: answered from the response cache while nothing has changed.
+export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "results.view");

@@ -24,7 +24,13 @@ export async function waitForHealth(url: string, timeoutMs: number): Promise<voi
 }
 
 /** The app in demo mode on 127.0.0.1:port against databaseUrl, started from the build folder. */
-export async function startAppServer(options: { port: number; databaseUrl: string; env?: Record<string, string> }): Promise<AppServer> {
+export async function startAppServer(options: {
+  port: number;
+  databaseUrl: string;
+  env?: Record<string, string>;
+  /** Hears each line the server writes to stdout (its request log); the log is then on. */
+  onLog?: (line: string) => void;
+}): Promise<AppServer> {
   const baseUrl = `http://127.0.0.1:${options.port}`;
   const buildDir = process.env.TILTHMARK_BUILD_DIR ?? "build";
   const env = {
@@ -35,11 +41,20 @@ export async function startAppServer(options: { port: number; databaseUrl: strin
     HOST: "127.0.0.1",
     PORT: String(options.port),
     TILTHMARK_BASE_URL: baseUrl,
-    TILTHMARK_QUIET_LOGS: "1",
+    TILTHMARK_QUIET_LOGS: options.onLog ? "0" : "1",
     ...options.env,
   };
   // Node itself, not npx, so that stopping it stops the server and not only a wrapper.
-  const child = spawn(process.execPath, ["server.js", `${buildDir}/server/index.js`], { env, stdio: ["ignore", "ignore", "inherit"] });
+  const child = spawn(process.execPath, ["server.js", `${buildDir}/server/index.js`], { env, stdio: ["ignore", options.onLog ? "pipe" : "ignore", "inherit"] });
+  if (options.onLog && child.stdout) {
+    const hear = options.onLog;
+    let rest = "";
+    child.stdout.setEncoding("utf8").on("data", (chunk: string) => {
+      const lines = (rest + chunk).split("\n");
+      rest = lines.pop() ?? "";
+      for (const line of lines) hear(line);
+    });
+  }
   await waitForHealth(baseUrl, 30_000);
   return {
     baseUrl,
