@@ -7,6 +7,7 @@ import { execFileSync } from "node:child_process";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { type AppServer, startAppServer } from "../support/app-server";
+import { launchBrowser } from "../support/browser";
 import { createTestDatabase, dropTestDatabase } from "../support/databases";
 import { signInCookie } from "../support/routes";
 import { DEMO_PASSWORD, demoTrial } from "../../datasets/demo/scenario";
@@ -108,6 +109,39 @@ describe("response cache", () => {
     const json = await cached(chart, cookie);
     expect(json.text).toBe(json.stored);
     expect(json.res.headers.get("content-type")).toMatch(/^application\/json/);
+  });
+
+  it("serves a page from the cache that still runs in the browser: charts drawn, no policy errors", async () => {
+    const cookie = await session("collaborator@cedarhollow.example");
+    const path = `/trials/${trialId}/results?variable=som&depth=0-10`;
+    await cached(path, cookie);
+    const browser = await launchBrowser();
+    try {
+      const context = await browser.newContext();
+      await context.addCookies(
+        cookie.split("; ").map((pair) => {
+          const at = pair.indexOf("=");
+          return { name: pair.slice(0, at), value: pair.slice(at + 1), url: app.baseUrl };
+        }),
+      );
+      const page = await context.newPage();
+      const problems: string[] = [];
+      page.on("console", (m) => m.type() === "error" && problems.push(m.text()));
+      page.on("pageerror", (e) => problems.push(e.message));
+      const before = log.length;
+      await page.goto(`${app.baseUrl}${path}`);
+      // Drawn in the browser from the chart routes (themselves cached), so the page's scripts ran.
+      await expect.poll(() => page.locator('[data-chart="season-means.svg"] svg').count(), { timeout: 20_000 }).toBeGreaterThan(0);
+      expect(log.slice(before).find((l) => l.path === path.split("?")[0])?.cache).toBe("hit");
+      // A client-side move to another cached page and back (React Router's .data requests).
+      await page.getByRole("navigation", { name: "Trial sections" }).getByRole("link", { name: "Overview" }).click();
+      await page.waitForURL(`${app.baseUrl}/trials/${trialId}`);
+      await page.goBack();
+      await expect.poll(() => page.locator('[data-chart="season-means.svg"] svg').count(), { timeout: 20_000 }).toBeGreaterThan(0);
+      expect(problems).toEqual([]);
+    } finally {
+      await browser.close();
+    }
   });
 
   it("keeps each person's pages apart", async () => {
