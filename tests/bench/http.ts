@@ -284,7 +284,7 @@ async function runPhase(phase: Phase, { env, admin, database, cookies, paths, tr
     console.log(`\nbench:http — ${phase.connections} signed-in clients × ${phase.durationS} s against ${BASE} (${BUILD_DIR}/, NODE_ENV=production; ${phase.target})`);
     console.log(`machine: ${availableParallelism()} CPUs, load ${loadAtEnd}`);
     console.log(`requests: ${latencies.length} in ${phase.durationS} s = ${(latencies.length / phase.durationS).toFixed(0)} req/s (autocannon mean ${result.requests.average.toFixed(0)} req/s)`);
-    console.log(`latency: p50 ${ms(summary.p50)}  p95 ${ms(summary.p95)}  p99 ${ms(summary.p99)}  max ${ms(Math.max(...latencies))}`);
+    console.log(`latency: p50 ${ms(summary.p50)}  p95 ${ms(summary.p95)}  p99 ${ms(summary.p99)}  max ${ms(latencies.reduce((a, b) => Math.max(a, b), 0))}`);
     console.log(`errors: ${errors} (HTTP ≥ 400, ${result.errors} connection errors, ${result.timeouts} timeouts); statuses ${[...statuses].map(([s, c]) => `${s}×${c}`).join(", ")}`);
     console.log(`CPU per request: server ${ms(serverMsPerRequest)}, PostgreSQL ${ms(pgMsPerRequest)}`);
     console.log(`server memory (RSS, all processes): idle ${idleMb.toFixed(0)} MB, before the run ${beforeMb.toFixed(0)} MB, peak ${peakMb.toFixed(0)} MB, after ${afterMb.toFixed(0)} MB`);
