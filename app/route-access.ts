@@ -112,6 +112,7 @@ export const ACTION_ACCESS: Record<string, RouteAccess> = {
   "/trials/:trialId/setup": can("trials.edit"),
   "/trials/:trialId/treatments": can("trials.edit"),
   "/trials/:trialId/randomization": can("trials.edit"),
+  "/trials/:trialId/plot-map": can("trials.edit"),
   "/trials/:trialId/sampling": can("samples.edit"),
   "/trials/:trialId/intake": can("measurements.upload"),
   "/trials/:trialId/intake/entry": can("measurements.upload"),

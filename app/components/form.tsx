@@ -14,6 +14,8 @@ type FieldProps = {
   autoComplete?: string;
   maxLength?: number;
   readOnly?: boolean;
+  /** The on-screen keyboard a phone shows (numbers for measured values). */
+  inputMode?: "numeric" | "decimal" | "text";
 };
 
 /** The id, error and aria-describedby shared by every labelled field. */

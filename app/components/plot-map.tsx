@@ -1,8 +1,9 @@
-// The plot map: the field drawn to scale, north at the top, every plot labelled with its number and
+// The plot map: the field drawn to scale, with a north arrow (north at the top unless the trial's map
+// bearing says the map's top faces another way), every plot labelled with its number and
 // treatment code (colour only repeats what the text says). One component draws it in the page and
 // in the SVG download, so what is printed is what was seen.
 import { inUnitSystem } from "../../analysis/units";
-import { fieldGeometry, LABEL_INK, styleIndexByCode, treatmentStyle, type PlotMapData } from "~/design/plot-map";
+import { compassPoint, fieldGeometry, LABEL_INK, mapAxes, orientationText, styleIndexByCode, treatmentStyle, type PlotMapData } from "~/design/plot-map";
 import { formatNumber } from "~/format";
 import { DESIGN_LABELS } from "./page";
 
@@ -33,6 +34,8 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
   const geo = fieldGeometry(data);
   const rows = trial.blockOrientation === "rows";
   const blocked = trial.design !== "crd";
+  const bearing = trial.mapBearingDeg;
+  const axes = mapAxes(bearing);
   const scale = Math.min(FIELD_MAX_W / Math.max(geo.widthM, 1), FIELD_MAX_H / Math.max(geo.heightM, 1), 40);
   const labelW = rows ? 78 : 0;
   const topLabelH = rows ? 0 : 22;
@@ -95,8 +98,8 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
     >
       <title id={titleId}>{`Plot map: ${trial.title}`}</title>
       <desc id={descId}>
-        {`${plotCount} plots in ${blockCount} ${blocked ? "blocks" : "field rows"}, drawn to scale with north at the top. ` +
-          `Field ${lengthText(geo.widthM, unitSystem)} east–west by ${lengthText(geo.heightM, unitSystem)} north–south. ` +
+        {`${plotCount} plots in ${blockCount} ${blocked ? "blocks" : "field rows"}, drawn to scale with the ${orientationText(bearing)}. ` +
+          `Field ${lengthText(geo.widthM, unitSystem)} ${axes.across} by ${lengthText(geo.heightM, unitSystem)} ${axes.along}. ` +
           "Each plot is labelled with its plot number and treatment code."}
       </desc>
       <defs>
@@ -206,12 +209,19 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
         />
       ))}
 
-      {/* North arrow and scale bar */}
-      <g transform={`translate(${r1(x0 + fieldW + 84)} ${r1(y0 + 6)})`}>
-        <polygon points="0,0 11,30 0,23 -11,30" fill={LABEL_INK} />
-        <text x="0" y="48" fontSize="15" fontWeight="600" textAnchor="middle" fill={LABEL_INK}>
-          N
-        </text>
+      {/* North arrow (turned to true north when the map's top faces another bearing) and scale bar */}
+      <g transform={`translate(${r1(x0 + fieldW + 84)} ${r1(y0 + 30)})`} data-bearing={bearing}>
+        <g transform={bearing === 0 ? undefined : `rotate(${-bearing})`}>
+          <polygon points="0,-24 11,6 0,-1 -11,6" fill={LABEL_INK} />
+          <text x="0" y="-30" fontSize="15" fontWeight="600" textAnchor="middle" fill={LABEL_INK} transform={bearing === 0 ? undefined : `rotate(${bearing} 0 -35)`}>
+            N
+          </text>
+        </g>
+        {bearing !== 0 && (
+          <text x="0" y="34" fontSize="11" textAnchor="middle" fill={LABEL_INK} fontFamily={MONO}>
+            {`top ${bearing}° ${compassPoint(bearing)}`}
+          </text>
+        )}
       </g>
       <g transform={`translate(${r1(x0)} ${r1(y0 + fieldH + 22)})`}>
         <rect x="0" y="0" width={r1(barPx / 2)} height="6" fill={LABEL_INK} />
@@ -247,7 +257,7 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
       </text>
       <text x={PAD} y={r1(footY + 22)} fontSize="11.5" fill={LABEL_INK}>
         {`Plot number = ${blocked ? "block" : "row"} × 100 + position${trial.arrangement === "serpentine" ? ", every second " + (blocked ? "block" : "row") + " numbered back the other way" : ""}. ` +
-          `${blocked ? "Blocks" : "Rows"} laid as ${rows ? "rows (east–west)" : "columns (north–south)"}, north at the top.`}
+          `${blocked ? "Blocks" : "Rows"} laid as ${rows ? `rows (${axes.across})` : `columns (${axes.along})`}, ${orientationText(bearing)}.`}
       </text>
       {trial.design === "split_plot" && (
         <text x={PAD} y={r1(footY + 40)} fontSize="11.5" fill={LABEL_INK}>

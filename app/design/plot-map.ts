@@ -10,6 +10,8 @@ export type PlotMapData = {
     seed: number | null;
     arrangement: "straight" | "serpentine";
     blockOrientation: "rows" | "columns";
+    /** Compass bearing (whole degrees from true north) that the map's top faces; 0 = north at the top. */
+    mapBearingDeg: number;
     plotLengthM: number;
     plotWidthM: number;
     alleyBetweenPlotsM: number;
@@ -29,6 +31,24 @@ export type PlotMapData = {
     treatment: string;
   }[];
 };
+
+const COMPASS_POINTS = ["N", "NNE", "NE", "ENE", "E", "ESE", "SE", "SSE", "S", "SSW", "SW", "WSW", "W", "WNW", "NW", "NNW"] as const;
+
+/** The nearest of the 16 compass points to a bearing (22.5° sectors centred on each point; common practice). */
+export function compassPoint(bearingDeg: number): (typeof COMPASS_POINTS)[number] {
+  const d = ((bearingDeg % 360) + 360) % 360;
+  return COMPASS_POINTS[Math.round(d / 22.5) % 16];
+}
+
+/** How the map sits in the field, for captions: "north at the top" or "top of the map facing 30° (NNE)". */
+export function orientationText(bearingDeg: number): string {
+  return bearingDeg === 0 ? "north at the top" : `top of the map facing ${bearingDeg}° (${compassPoint(bearingDeg)})`;
+}
+
+/** Words for the map's two directions: compass words when north is up, the page's otherwise. */
+export function mapAxes(bearingDeg: number): { across: string; along: string } {
+  return bearingDeg === 0 ? { across: "east–west", along: "north–south" } : { across: "left to right on the map", along: "top to bottom on the map" };
+}
 
 /**
  * Fill colours: Paul Tol's "light" qualitative scheme, chosen to stay distinguishable with the common
@@ -59,16 +79,17 @@ export type FieldGeometry = {
   plots: PlacedPlot[];
   widthM: number;
   heightM: number;
-  /** Size of one plot as drawn (east–west, north–south). */
+  /** Size of one plot as drawn (across, along the map; east–west and north–south when north is up). */
   plotWM: number;
   plotHM: number;
-  /** Gap between neighbouring plots east–west and north–south. */
+  /** Gap between neighbouring plots across and along the map. */
   gapXM: number;
   gapYM: number;
 };
 
 /**
- * Places every plot on the field, north at the top. Blocks as rows: each block runs east–west, plots
+ * Places every plot on the field as seen with the map's top ahead (north, unless the trial's map
+ * bearing says otherwise; only the north arrow turns). Directions below are for north at the top. Blocks as rows: each block runs east–west, plots
  * side by side (plot width east–west, length north–south), alleys between blocks north–south. Blocks as
  * columns: the same turned a quarter.
  */

@@ -97,6 +97,23 @@ describe("researcher", () => {
     await screenshot(page, "design-plot-map-print");
     await page.emulateMedia({ media: "screen" });
 
+    // The field runs north-north-east: the map keeps its layout and the north arrow turns.
+    expect(svg).toContain("north at the top");
+    await page.getByLabel("Top of the map faces (° from true north)").fill("400");
+    await page.getByRole("button", { name: "Save orientation" }).click();
+    await page.getByText("The bearing must be at most 359", { exact: false }).waitFor();
+    await page.getByLabel("Top of the map faces (° from true north)").fill("30");
+    await page.getByRole("button", { name: "Save orientation" }).click();
+    await page.getByText("The map now shows the top of the map facing 30° (NNE).").waitFor();
+    await expect.poll(() => map.locator("[data-bearing]").getAttribute("data-bearing"), { timeout: 10_000 }).toBe("30");
+    expect(await map.getByText("top 30° NNE").count()).toBe(1);
+    await screenshot(page, "design-plot-map-turned");
+    const [turned] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Download SVG" }).click()]);
+    const turnedSvg = readFileSync((await turned.path())!, "utf8");
+    expect(turnedSvg).toContain("top of the map facing 30° (NNE)");
+    expect(turnedSvg).not.toContain("east–west");
+    expect(turnedSvg).toContain(">405</text>");
+
     await page.getByRole("link", { name: "Application sheet" }).click();
     await page.getByTestId("application-sheet").waitFor();
     await page.getByText("Manure and immature compost can carry pathogens", { exact: false }).first().waitFor();

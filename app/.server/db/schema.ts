@@ -76,6 +76,8 @@ export const trials = pgTable(
     arrangement: text("arrangement", { enum: ["straight", "serpentine"] }).notNull().default("straight"),
     /** Blocks laid side by side as rows or as columns of the field. */
     blockOrientation: text("block_orientation", { enum: ["rows", "columns"] }).notNull().default("rows"),
+    /** Compass bearing, whole degrees clockwise from true north, that the top of the plot map faces in the field. */
+    mapBearingDeg: integer("map_bearing_deg").notNull().default(0),
     labMethodId: uuid("lab_method_id"),
     socFactor: doublePrecision("soc_factor").notNull().default(1.724),
     /** Bumped on every committed data change; results are cached by it. */

@@ -133,6 +133,16 @@ export async function unlockDesign(actorId: string, trialId: string, reason: str
   });
 }
 
+/** Turns the plot map to the field: the compass bearing its top faces (only the drawing changes; audited). */
+export async function setMapBearing(actorId: string, trialId: string, bearingDeg: number) {
+  return db.transaction(async (tx) => {
+    const trial = await getTrialForUpdate(tx, trialId);
+    if (trial.mapBearingDeg === bearingDeg) return;
+    await tx.update(schema.trials).set({ mapBearingDeg: bearingDeg, updatedAt: new Date() }).where(eq(schema.trials.id, trialId));
+    await recordAudit({ programId: trial.programId, trialId, actorId, action: "update", entity: "plot_map", entityId: trialId, details: { before: { bearingDeg: trial.mapBearingDeg }, after: { bearingDeg } } }, tx);
+  });
+}
+
 export async function plotCount(trialId: string): Promise<number> {
   const [{ n }] = await db.select({ n: count() }).from(schema.plots).where(eq(schema.plots.trialId, trialId));
   return n;
@@ -176,6 +186,7 @@ export async function plotMapData(trialId: string, unitSystem: "si" | "us"): Pro
       seed: trial.randomizationSeed,
       arrangement: trial.arrangement,
       blockOrientation: trial.blockOrientation,
+      mapBearingDeg: trial.mapBearingDeg,
       plotLengthM: trial.plotLengthM ?? 0,
       plotWidthM: trial.plotWidthM ?? 0,
       alleyBetweenPlotsM: trial.alleyBetweenPlotsM ?? 0,

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { rcbdLayout, splitPlotLayout } from "../../../analysis/design";
 import { drawLayout, fieldCell, layoutDesignOf, orderedFactors } from "~/.server/design/draw";
 import { DesignError } from "~/.server/design/errors";
-import { fieldGeometry, styleIndexByCode, treatmentStyle, TREATMENT_FILLS, type PlotMapData } from "~/design/plot-map";
+import { compassPoint, fieldGeometry, mapAxes, orientationText, styleIndexByCode, treatmentStyle, TREATMENT_FILLS, type PlotMapData } from "~/design/plot-map";
 
 function mapData(orientation: "rows" | "columns"): Pick<PlotMapData, "trial" | "plots"> {
   const layout = rcbdLayout({ treatments: ["T1", "T2", "T3", "T4", "T5", "T6"], blocks: 4, seed: 20250314 });
@@ -16,6 +16,7 @@ function mapData(orientation: "rows" | "columns"): Pick<PlotMapData, "trial" | "
       seed: 20250314,
       arrangement: "straight",
       blockOrientation: orientation,
+      mapBearingDeg: 0,
       plotLengthM: 6,
       plotWidthM: 3,
       alleyBetweenPlotsM: 1,
@@ -126,5 +127,22 @@ describe("treatment styles", () => {
     };
     const ink = lum("#1d150e");
     for (const fill of TREATMENT_FILLS) expect((lum(fill) + 0.05) / (ink + 0.05)).toBeGreaterThan(4.5);
+  });
+});
+
+describe("map bearing", () => {
+  // The 16-point compass: each point names the 22.5° sector centred on it (common practice), so
+  // 11.25° is the first bearing that rounds to NNE and 348.75° the first that rounds back to N.
+  it("names the nearest of the 16 compass points", () => {
+    expect([0, 11, 12, 22.5, 45, 90, 135, 180, 202.5, 270, 315, 348, 349, 359, 360, -30].map(compassPoint)).toEqual([
+      "N", "N", "NNE", "NNE", "NE", "E", "SE", "S", "SSW", "W", "NW", "NNW", "N", "N", "N", "NNW",
+    ]);
+  });
+
+  it("says north is at the top only when it is", () => {
+    expect(orientationText(0)).toBe("north at the top");
+    expect(orientationText(30)).toBe("top of the map facing 30° (NNE)");
+    expect(mapAxes(0)).toEqual({ across: "east–west", along: "north–south" });
+    expect(mapAxes(30).across).not.toMatch(/east|west/);
   });
 });

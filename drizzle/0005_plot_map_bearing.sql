@@ -1,0 +1,1 @@
+ALTER TABLE "trial" ADD COLUMN "map_bearing_deg" integer DEFAULT 0 NOT NULL;
