@@ -108,7 +108,8 @@ export async function draftBrief(trialId: string, selection: BriefSelection, inc
       id: trialId,
       title: data.trial.title,
       site: trialRow?.siteName ?? null,
-      soil: [trialRow?.soilSeries, trialRow?.texture].filter(Boolean).join(", ") || null,
+      // "Cedar Hollow silt loam, eroded phase" already names its texture: don't repeat it.
+      soil: [trialRow?.soilSeries, trialRow?.texture && !trialRow.soilSeries?.toLowerCase().includes(trialRow.texture.toLowerCase()) ? trialRow.texture : null].filter(Boolean).join(", ") || null,
       design: data.trial.design,
     },
     sections,

@@ -58,8 +58,10 @@ export default function ResultsPage({ params }: Route.ComponentProps) {
   const variable = view?.selection.variable ?? options.variables.find((v) => v.id === query?.variable) ?? options.variables[0];
   const model = query?.model ?? "per_season";
   const stock = variable.id === "soc_stock" || variable.id === "soc_stock_esm";
+  // Equivalent-soil-mass stocks run from the surface: the top increment and every cumulative span.
+  const increments = variable.id === "soc_stock_esm" ? options.depths.increments.filter((d) => d.topCm === 0) : options.depths.increments;
   const depthOptions = [
-    ...(variable.id === "soc_stock_esm" ? [] : options.depths.increments.map((d) => ({ value: `${d.topCm}-${d.bottomCm}`, label: `${d.topCm}–${d.bottomCm} cm` }))),
+    ...increments.map((d) => ({ value: `${d.topCm}-${d.bottomCm}`, label: `${d.topCm}–${d.bottomCm} cm` })),
     ...(stock ? options.depths.cumulative.map((d) => ({ value: `${d.topCm}-${d.bottomCm}`, label: `${d.topCm}–${d.bottomCm} cm (cumulative)` })) : []),
   ];
   const seasonOptions = options.seasons.filter((s) => model !== "change_from_baseline" || !s.isBaseline);

@@ -6,7 +6,7 @@ import { mulberry32, type UniformSource } from "../../analysis/design";
 
 /** Sampling events in date order; the first is the pre-treatment baseline. 2027 dates lie ahead of late 2026: the scenario runs to fall 2027. */
 export const demoSamplingEvents = [
-  { seasonLabel: "2025 spring (baseline)", eventDate: "2025-03-25", isBaseline: true },
+  { seasonLabel: "2025 spring", eventDate: "2025-03-25", isBaseline: true },
   { seasonLabel: "2025 fall", eventDate: "2025-10-14", isBaseline: false },
   { seasonLabel: "2026 spring", eventDate: "2026-04-21", isBaseline: false },
   { seasonLabel: "2026 fall", eventDate: "2026-10-13", isBaseline: false },

@@ -57,6 +57,17 @@ describe("collaborator", () => {
     expect(text.split("\r\n")[0]).toBe("variable,unit,depth,model,season,source,df,ss,ms,f,p,error_term");
     expect(text).toContain("2025 fall,treatment,5,");
 
+    // Switching to equivalent-soil-mass stocks keeps the depth box saying what the numbers are for.
+    await page.getByRole("combobox", { name: "Depth", exact: true }).selectOption("0-10");
+    await page.getByRole("combobox", { name: "Variable", exact: true }).selectOption("soc_stock_esm");
+    await page.waitForURL(/variable=soc_stock_esm/);
+    await page.getByText("SOC stock (equivalent soil mass)", { exact: true }).first().waitFor();
+    const depthBox = page.getByRole("combobox", { name: "Depth", exact: true });
+    await expect.poll(() => depthBox.inputValue(), { timeout: 15_000 }).toBe("0-10");
+    expect(await page.locator("main p strong").first().innerText()).toBe("SOC stock (equivalent soil mass)");
+    expect(await page.locator("main p").filter({ hasText: "SOC stock (equivalent soil mass) at" }).first().innerText()).toContain("0–10 cm");
+    expect(await depthBox.locator("option").allInnerTexts()).toEqual(["0–10 cm", "0–20 cm (cumulative)", "0–30 cm (cumulative)"]);
+
     // Collaborators read contrasts but get no editor.
     await page.getByRole("link", { name: "All contrasts" }).click();
     await page.getByRole("heading", { name: /Saved contrasts/ }).waitFor();

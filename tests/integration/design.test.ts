@@ -99,6 +99,19 @@ describe("treatments", () => {
     expect((result.body as { errors: Record<string, string[]> }).errors.code).toEqual(["Another treatment already has the code “T2”."]);
   });
 
+  it("refuses a second untreated check beside the tick box, adding and editing alike", async () => {
+    const message = ["T1 (Untreated check) is already this trial's untreated check; differences and contrasts compare against one. Untick this, or make T1 an ordinary treatment first."];
+    const added = await post("researcher", { intent: "add-treatment", code: "T9", name: "Second check", isCheck: "on" });
+    expect(added.status).toBe(400);
+    expect((added.body as { errors: Record<string, string[]> }).errors.isCheck).toEqual(message);
+    const [t2] = await db.select().from(schema.treatments).where(and(eq(schema.treatments.trialId, trialId), eq(schema.treatments.code, "T2")));
+    const edited = await post("researcher", { intent: "update-treatment", treatmentId: t2.id, code: "T2", name: "Compost 10", description: "", isCheck: "on" });
+    expect(edited.status).toBe(400);
+    expect((edited.body as { errors: Record<string, string[]> }).errors.isCheck).toEqual(message);
+    const checks = await db.select().from(schema.treatments).where(and(eq(schema.treatments.trialId, trialId), eq(schema.treatments.isCheck, true)));
+    expect(checks.map((t) => t.code)).toEqual(["T1"]);
+  });
+
   it("adds a compost application to T2 and refuses one on the check", async () => {
     const [t1, t2] = await Promise.all(
       ["T1", "T2"].map(async (code) => (await db.select().from(schema.treatments).where(and(eq(schema.treatments.trialId, trialId), eq(schema.treatments.code, code))))[0]),

@@ -79,11 +79,27 @@ async function assertCodeFree(tx: Tx, trialId: string, code: string, exceptId?: 
   if (clash && clash.id !== exceptId) throw new DesignError(`Another treatment already has the code “${code}”.`, "code");
 }
 
+/** A trial has one untreated check: differences from the check, contrast presets and briefs compare against it. */
+async function assertNoOtherCheck(tx: Tx, trialId: string, isCheck: boolean, exceptId?: string) {
+  if (!isCheck) return;
+  const [other] = await tx
+    .select({ id: schema.treatments.id, code: schema.treatments.code, name: schema.treatments.name })
+    .from(schema.treatments)
+    .where(and(eq(schema.treatments.trialId, trialId), eq(schema.treatments.isCheck, true)));
+  if (other && other.id !== exceptId) {
+    throw new DesignError(
+      `${other.code} (${other.name}) is already this trial's untreated check; differences and contrasts compare against one. Untick this, or make ${other.code} an ordinary treatment first.`,
+      "isCheck",
+    );
+  }
+}
+
 /** Adds a treatment; a drawn layout no longer covers every treatment, so it is cleared. */
 export async function addTreatment(actorId: string, trialId: string, input: TreatmentInput) {
   return db.transaction(async (tx) => {
     const trial = await draftTrial(tx, trialId);
     await assertCodeFree(tx, trialId, input.code);
+    await assertNoOtherCheck(tx, trialId, input.isCheck);
     const [{ last }] = await tx
       .select({ last: max(schema.treatments.position) })
       .from(schema.treatments)
@@ -106,6 +122,7 @@ export async function updateTreatment(actorId: string, trialId: string, treatmen
     const trial = await draftTrial(tx, trialId);
     const before = await treatmentOf(tx, trialId, treatmentId);
     await assertCodeFree(tx, trialId, input.code, treatmentId);
+    await assertNoOtherCheck(tx, trialId, input.isCheck, treatmentId);
     await tx.update(schema.treatments).set(input).where(eq(schema.treatments.id, treatmentId));
     await recordAudit(
       {
