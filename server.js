@@ -1,7 +1,7 @@
 // Tilthmark's production server: `node server.js [build/server/index.js]`.
 // One worker process per CPU (node:cluster; WEB_CONCURRENCY sets the count), each serving the
-// built client files and the React Router app through Express. HOST and PORT as for
-// react-router-serve: HOST unset listens on every interface; PORT defaults to 3000.
+// built client files and the React Router app through Express. HOST unset listens on every
+// interface; PORT defaults to 3000.
 // SIGTERM or SIGINT: every worker stops accepting connections, finishes the requests in flight
 // and exits; the primary exits once all workers have (status 0 when they all stopped cleanly).
 import cluster from "node:cluster";

@@ -1,10 +1,53 @@
+import type { ReactNode } from "react";
 import type { ResultsPayload } from "../../analysis/results";
 import { formatDf, formatNumber, formatP, formatStatistic } from "~/format";
 
-const th = "px-3 py-2 text-left font-medium";
-const thNum = "px-3 py-2 text-right font-medium";
 const td = "px-3 py-1.5";
 const tdNum = "num px-3 py-1.5 text-right whitespace-nowrap";
+const row = "border-t border-loam-200";
+/** A p-value (or its row's finding) below α is set bold. */
+const significant = (yes: boolean) => (yes ? " font-semibold text-moss-900" : "");
+
+/** A column heading: text columns are left-aligned, numeric ones (made with `num`) right-aligned. */
+type Column = string | { label: string; numeric: true };
+const num = (label: string): Column => ({ label, numeric: true });
+
+/** The frame every results table shares: scrolling box, hidden caption, headings, then the rows. */
+function ResultTable({ caption, columns, children, note }: { caption: string; columns: Column[]; children: ReactNode; note?: ReactNode }) {
+  return (
+    <div className="overflow-x-auto rounded-lg border border-loam-200 bg-white">
+      <table className="w-full text-sm">
+        <caption className="sr-only">{caption}</caption>
+        <thead className="bg-loam-100 text-loam-800">
+          <tr>
+            {columns.map((c, i) =>
+              typeof c === "string" ? (
+                <th key={i} scope="col" className="px-3 py-2 text-left font-medium">
+                  {c}
+                </th>
+              ) : (
+                <th key={i} scope="col" className="px-3 py-2 text-right font-medium">
+                  {c.label}
+                </th>
+              ),
+            )}
+          </tr>
+        </thead>
+        <tbody>{children}</tbody>
+      </table>
+      {note && <p className="border-t border-loam-200 px-3 py-2 text-xs text-loam-700">{note}</p>}
+    </div>
+  );
+}
+
+/** The first cell of a row, naming what the row is about. */
+function RowHead({ children }: { children: ReactNode }) {
+  return (
+    <th scope="row" className={`${td} text-left font-normal`}>
+      {children}
+    </th>
+  );
+}
 
 const SOURCE_LABELS: Record<string, string> = {
   block: "Block",
@@ -27,37 +70,19 @@ export function sourceLabel(source: string, errorSources: Set<string>): string {
 export function AnovaTable({ results }: { results: ResultsPayload }) {
   const errorSources = new Set(results.anova.map((r) => r.errorTerm).filter((e): e is string => Boolean(e) && e !== "residual"));
   return (
-    <div className="overflow-x-auto rounded-lg border border-loam-200 bg-white">
-      <table className="w-full text-sm">
-        <caption className="sr-only">Analysis of variance</caption>
-        <thead className="bg-loam-100 text-loam-800">
-          <tr>
-            <th scope="col" className={th}>Source</th>
-            <th scope="col" className={thNum}>df</th>
-            <th scope="col" className={thNum}>SS</th>
-            <th scope="col" className={thNum}>MS</th>
-            <th scope="col" className={thNum}>F</th>
-            <th scope="col" className={thNum}>p</th>
-            <th scope="col" className={th}>Tested against</th>
-          </tr>
-        </thead>
-        <tbody>
-          {results.anova.map((row) => (
-            <tr key={row.source} className={`border-t border-loam-200 ${row.source === "total" ? "font-medium" : ""}`}>
-              <th scope="row" className={`${td} text-left font-normal`}>{sourceLabel(row.source, errorSources)}</th>
-              <td className={tdNum}>{formatDf(row.df)}</td>
-              <td className={tdNum}>{formatStatistic(row.ss)}</td>
-              <td className={tdNum}>{formatStatistic(row.ms)}</td>
-              <td className={tdNum}>{row.f === null ? "" : formatNumber(row.f, 2)}</td>
-              <td className={`${tdNum} ${row.p !== null && row.p < results.alpha ? "font-semibold text-moss-900" : ""}`}>
-                {row.p === null ? "" : formatP(row.p)}
-              </td>
-              <td className={`${td} text-loam-700`}>{row.errorTerm ? sourceLabel(row.errorTerm, errorSources) : ""}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <ResultTable caption="Analysis of variance" columns={["Source", num("df"), num("SS"), num("MS"), num("F"), num("p"), "Tested against"]}>
+      {results.anova.map((r) => (
+        <tr key={r.source} className={`${row} ${r.source === "total" ? "font-medium" : ""}`}>
+          <RowHead>{sourceLabel(r.source, errorSources)}</RowHead>
+          <td className={tdNum}>{formatDf(r.df)}</td>
+          <td className={tdNum}>{formatStatistic(r.ss)}</td>
+          <td className={tdNum}>{formatStatistic(r.ms)}</td>
+          <td className={tdNum}>{r.f === null ? "" : formatNumber(r.f, 2)}</td>
+          <td className={tdNum + significant(r.p !== null && r.p < results.alpha)}>{r.p === null ? "" : formatP(r.p)}</td>
+          <td className={`${td} text-loam-700`}>{r.errorTerm ? sourceLabel(r.errorTerm, errorSources) : ""}</td>
+        </tr>
+      ))}
+    </ResultTable>
   );
 }
 
@@ -66,84 +91,57 @@ const METHOD_NAMES = { tukey: "Tukey–Kramer", lsd: "Fisher's protected LSD" } 
 /** Treatment means ± SE with letters and the difference from the check under the same method. */
 export function MeansTable({ results, decimals, unit }: { results: ResultsPayload; decimals: number; unit: string }) {
   const level = Math.round((1 - results.alpha) * 100);
+  const note = (
+    <>
+      Means sharing a letter do not differ at α = {results.alpha} ({METHOD_NAMES[results.method]}); ‘a’ is the highest mean.
+      Differences from the check use the same method{results.method === "tukey" ? " (Tukey–Kramer adjusted intervals and p-values)" : ""}.
+    </>
+  );
   return (
-    <div className="overflow-x-auto rounded-lg border border-loam-200 bg-white">
-      <table className="w-full text-sm">
-        <caption className="sr-only">Treatment means</caption>
-        <thead className="bg-loam-100 text-loam-800">
-          <tr>
-            <th scope="col" className={th}>Treatment</th>
-            <th scope="col" className={thNum}>n</th>
-            <th scope="col" className={thNum}>Mean ± SE ({unit})</th>
-            <th scope="col" className={`${th} text-center`}>Group</th>
-            <th scope="col" className={thNum}>Difference from check</th>
-            <th scope="col" className={thNum}>{level} % CI</th>
-            <th scope="col" className={thNum}>p</th>
-          </tr>
-        </thead>
-        <tbody>
-          {results.means.map((m) => (
-            <tr key={m.code} className="border-t border-loam-200">
-              <th scope="row" className={`${td} text-left font-normal`}>
-                <span className="num mr-2 text-loam-600">{m.code}</span>
-                {m.name}
-                {m.isCheck && <span className="ml-2 rounded bg-loam-100 px-1.5 py-0.5 text-xs">check</span>}
-              </th>
-              <td className={tdNum}>{m.n}</td>
-              <td className={tdNum}>
-                {formatNumber(m.mean, decimals)} ± {formatNumber(m.se, decimals)}
-              </td>
-              <td className="num px-3 py-1.5 text-center font-medium">{m.group}</td>
-              <td className={tdNum}>{m.vsCheck ? formatNumber(m.vsCheck.diff, decimals) : ""}</td>
-              <td className={tdNum}>
-                {m.vsCheck ? `${formatNumber(m.vsCheck.lower, decimals)} to ${formatNumber(m.vsCheck.upper, decimals)}` : ""}
-              </td>
-              <td className={`${tdNum} ${m.vsCheck?.significant ? "font-semibold text-moss-900" : ""}`}>{m.vsCheck ? formatP(m.vsCheck.p) : ""}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <p className="border-t border-loam-200 px-3 py-2 text-xs text-loam-700">
-        Means sharing a letter do not differ at α = {results.alpha} ({METHOD_NAMES[results.method]}); ‘a’ is the highest mean.
-        Differences from the check use the same method{results.method === "tukey" ? " (Tukey–Kramer adjusted intervals and p-values)" : ""}.
-      </p>
-    </div>
+    <ResultTable
+      caption="Treatment means"
+      columns={["Treatment", num("n"), num(`Mean ± SE (${unit})`), "Group", num("Difference from check"), num(`${level} % CI`), num("p")]}
+      note={note}
+    >
+      {results.means.map((m) => (
+        <tr key={m.code} className={row}>
+          <RowHead>
+            <span className="num mr-2 text-loam-600">{m.code}</span>
+            {m.name}
+            {m.isCheck && <span className="ml-2 rounded bg-loam-100 px-1.5 py-0.5 text-xs">check</span>}
+          </RowHead>
+          <td className={tdNum}>{m.n}</td>
+          <td className={tdNum}>
+            {formatNumber(m.mean, decimals)} ± {formatNumber(m.se, decimals)}
+          </td>
+          <td className="num px-3 py-1.5 text-center font-medium">{m.group}</td>
+          <td className={tdNum}>{m.vsCheck ? formatNumber(m.vsCheck.diff, decimals) : ""}</td>
+          <td className={tdNum}>{m.vsCheck ? `${formatNumber(m.vsCheck.lower, decimals)} to ${formatNumber(m.vsCheck.upper, decimals)}` : ""}</td>
+          <td className={tdNum + significant(Boolean(m.vsCheck?.significant))}>{m.vsCheck ? formatP(m.vsCheck.p) : ""}</td>
+        </tr>
+      ))}
+    </ResultTable>
   );
 }
 
 export function ComparisonsTable({ results, decimals }: { results: ResultsPayload; decimals: number }) {
   return (
-    <div className="overflow-x-auto rounded-lg border border-loam-200 bg-white">
-      <table className="w-full text-sm">
-        <caption className="sr-only">Pairwise comparisons</caption>
-        <thead className="bg-loam-100 text-loam-800">
-          <tr>
-            <th scope="col" className={th}>Comparison</th>
-            <th scope="col" className={thNum}>Difference</th>
-            <th scope="col" className={thNum}>SE</th>
-            <th scope="col" className={thNum}>df</th>
-            <th scope="col" className={thNum}>CI</th>
-            <th scope="col" className={thNum}>p (adjusted)</th>
-          </tr>
-        </thead>
-        <tbody>
-          {results.comparisons.map((c) => (
-            <tr key={`${c.a}|${c.b}`} className="border-t border-loam-200">
-              <th scope="row" className={`${td} text-left font-normal`}>
-                {c.aName} − {c.bName}
-              </th>
-              <td className={tdNum}>{formatNumber(c.diff, decimals)}</td>
-              <td className={tdNum}>{formatNumber(c.se, decimals + 1)}</td>
-              <td className={tdNum}>{formatDf(c.df)}</td>
-              <td className={tdNum}>
-                {formatNumber(c.lower, decimals)} to {formatNumber(c.upper, decimals)}
-              </td>
-              <td className={`${tdNum} ${c.significant ? "font-semibold text-moss-900" : ""}`}>{formatP(c.p)}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <ResultTable caption="Pairwise comparisons" columns={["Comparison", num("Difference"), num("SE"), num("df"), num("CI"), num("p (adjusted)")]}>
+      {results.comparisons.map((c) => (
+        <tr key={`${c.a}|${c.b}`} className={row}>
+          <RowHead>
+            {c.aName} − {c.bName}
+          </RowHead>
+          <td className={tdNum}>{formatNumber(c.diff, decimals)}</td>
+          <td className={tdNum}>{formatNumber(c.se, decimals + 1)}</td>
+          <td className={tdNum}>{formatDf(c.df)}</td>
+          <td className={tdNum}>
+            {formatNumber(c.lower, decimals)} to {formatNumber(c.upper, decimals)}
+          </td>
+          <td className={tdNum + significant(c.significant)}>{formatP(c.p)}</td>
+        </tr>
+      ))}
+    </ResultTable>
   );
 }
 

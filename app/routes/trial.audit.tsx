@@ -1,7 +1,7 @@
-import { Form, useLoaderData } from "react-router";
+import { useLoaderData } from "react-router";
 import { requirePermission } from "~/.server/permissions";
 import { actionLabel, auditFilterChoices, describeDetails, listAuditEntries } from "~/.server/intake/audit-log";
-import { buttonClass } from "~/components/form";
+import { FilterForm, FilterInput, FilterSelect, filterQuery } from "~/components/filter-form";
 import { Empty, Pager } from "~/components/page";
 import type { Route } from "./+types/trial.audit";
 
@@ -29,59 +29,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export default function AuditPage() {
   const d = useLoaderData<typeof loader>();
-  const exportQuery = new URLSearchParams(d.query);
-  exportQuery.delete("page");
-  const pageHref = (p: number) => {
-    const q = new URLSearchParams(d.query);
-    q.set("page", String(p));
-    return `?${q}`;
-  };
+  const pageHref = (p: number) => `?${filterQuery(d.query, [], p)}`;
   return (
     <>
-      <div className="mb-4 flex flex-wrap items-end justify-between gap-4">
-        <Form method="get" className="flex flex-wrap items-end gap-3 text-sm">
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">What</span>
-            <select name="action" defaultValue={d.filter.action} className="rounded-md border border-loam-400 bg-white px-2 py-1.5">
-              <option value="">Everything</option>
-              {d.choices.actions.map((a) => (
-                <option key={a.value} value={a.value}>
-                  {a.label}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">Who</span>
-            <select name="actor" defaultValue={d.filter.actor} className="rounded-md border border-loam-400 bg-white px-2 py-1.5">
-              <option value="">Anyone</option>
-              {d.choices.actors.map((a) => (
-                <option key={a.id} value={a.id}>
-                  {a.name}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">From</span>
-            <input type="date" name="from" defaultValue={d.filter.from} className="rounded-md border border-loam-400 bg-white px-2 py-1" />
-          </label>
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">To</span>
-            <input type="date" name="to" defaultValue={d.filter.to} className="rounded-md border border-loam-400 bg-white px-2 py-1" />
-          </label>
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">Containing</span>
-            <input name="text" defaultValue={d.filter.text} placeholder="sample code, file, reason" className="rounded-md border border-loam-400 bg-white px-2 py-1.5" />
-          </label>
-          <button type="submit" className={buttonClass("secondary")}>
-            Filter
-          </button>
-        </Form>
-        <a className={buttonClass("secondary")} href={`/api/trials/${d.trialId}/audit.csv?${exportQuery}`} download>
-          Export CSV
-        </a>
-      </div>
+      <FilterForm submitLabel="Filter" exportHref={`/api/trials/${d.trialId}/audit.csv?${filterQuery(d.query, ["page"])}`}>
+        <FilterSelect label="What" name="action" value={d.filter.action} anyLabel="Everything" options={d.choices.actions} />
+        <FilterSelect label="Who" name="actor" value={d.filter.actor} anyLabel="Anyone" options={d.choices.actors.map((a) => ({ value: a.id, label: a.name }))} />
+        <FilterInput label="From" name="from" type="date" value={d.filter.from} />
+        <FilterInput label="To" name="to" type="date" value={d.filter.to} />
+        <FilterInput label="Containing" name="text" value={d.filter.text} placeholder="sample code, file, reason" />
+      </FilterForm>
       <p className="mb-3 text-sm text-loam-700">
         <span className="num">{d.total}</span> entries, newest first. Times in UTC.
       </p>

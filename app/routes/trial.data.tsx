@@ -1,9 +1,10 @@
-import { Form, Link, useLoaderData } from "react-router";
+import { Link, useLoaderData } from "react-router";
 import { requirePermission } from "~/.server/permissions";
 import { DATA_COLUMNS, dataRows } from "~/.server/intake/data-table";
 import { listEvents } from "~/.server/intake/events";
 import { getTrialOverview } from "~/.server/trials";
-import { FormMessage, buttonClass } from "~/components/form";
+import { FilterCheckbox, FilterForm, FilterSelect, filterQuery } from "~/components/filter-form";
+import { FormMessage } from "~/components/form";
 import { Empty, Pager } from "~/components/page";
 import { formatNumber } from "~/format";
 import { roleCan } from "~/permissions";
@@ -12,6 +13,8 @@ import type { Route } from "./+types/trial.data";
 export const meta: Route.MetaFunction = () => [{ title: "Data · Tilthmark" }];
 
 const PAGE_SIZE = 100;
+/** The commit notice's parameters: shown once, never carried into page links or the export. */
+const ONE_OFF = ["committed", "notice"];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "results.view");
@@ -57,15 +60,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export default function DataPage() {
   const d = useLoaderData<typeof loader>();
-  const pageHref = (page: number) => {
-    const q = new URLSearchParams(d.query);
-    q.delete("committed");
-    q.delete("notice");
-    q.set("page", String(page));
-    return `?${q}`;
-  };
-  const exportQuery = new URLSearchParams(d.query);
-  for (const k of ["committed", "notice", "page"]) exportQuery.delete(k);
+  const pageHref = (page: number) => `?${filterQuery(d.query, ONE_OFF, page)}`;
   return (
     <>
       {d.committed && (
@@ -78,53 +73,18 @@ export default function DataPage() {
           </FormMessage>
         </div>
       )}
-      <div className="mb-4 flex flex-wrap items-end justify-between gap-4">
-        <Form method="get" className="flex flex-wrap items-end gap-3 text-sm">
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">Event</span>
-            <select name="event" defaultValue={d.filter.event} className="rounded-md border border-loam-400 bg-white px-2 py-1.5">
-              <option value="">All events</option>
-              {d.events.map((e) => (
-                <option key={e.id} value={e.id}>
-                  {e.label}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">Treatment</span>
-            <select name="treatment" defaultValue={d.filter.treatment} className="rounded-md border border-loam-400 bg-white px-2 py-1.5">
-              <option value="">All treatments</option>
-              {d.treatments.map((t) => (
-                <option key={t.code} value={t.code}>
-                  {t.code} {t.name}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label className="flex flex-col gap-1">
-            <span className="font-medium">Depth (cm)</span>
-            <select name="depth" defaultValue={d.filter.depth} className="rounded-md border border-loam-400 bg-white px-2 py-1.5">
-              <option value="">All depths</option>
-              {d.depths.map((x) => (
-                <option key={x} value={x}>
-                  {x.replace("-", "–")}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label className="inline-flex items-center gap-2 pb-2">
-            <input type="checkbox" name="excluded" value="1" defaultChecked={d.filter.excluded} className="size-4 accent-moss-700" />
-            Excluded in QC only
-          </label>
-          <button type="submit" className={buttonClass("secondary")}>
-            Show
-          </button>
-        </Form>
-        <a className={buttonClass("secondary")} href={`/api/trials/${d.trialId}/data.csv?${exportQuery}`} download>
-          Export CSV
-        </a>
-      </div>
+      <FilterForm submitLabel="Show" exportHref={`/api/trials/${d.trialId}/data.csv?${filterQuery(d.query, [...ONE_OFF, "page"])}`}>
+        <FilterSelect label="Event" name="event" value={d.filter.event} anyLabel="All events" options={d.events.map((e) => ({ value: e.id, label: e.label }))} />
+        <FilterSelect
+          label="Treatment"
+          name="treatment"
+          value={d.filter.treatment}
+          anyLabel="All treatments"
+          options={d.treatments.map((t) => ({ value: t.code, label: `${t.code} ${t.name}` }))}
+        />
+        <FilterSelect label="Depth (cm)" name="depth" value={d.filter.depth} anyLabel="All depths" options={d.depths.map((x) => ({ value: x, label: x.replace("-", "–") }))} />
+        <FilterCheckbox label="Excluded in QC only" name="excluded" checked={d.filter.excluded} />
+      </FilterForm>
       <p className="mb-3 text-sm text-loam-700">
         Derived on the server from the raw inputs: SOM from LOI, SOC = SOM / <span className="num">{d.socFactor}</span>, stocks = SOC × fine-earth BD × thickness. Excluded values are
         struck through and left out of analyses. <span className="num">{d.total}</span> samples.
