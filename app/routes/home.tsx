@@ -1,13 +1,15 @@
 import { Form, Link, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
-import { requireAdmin, requireUser } from "~/.server/permissions";
+import { listBriefs } from "~/.server/briefs";
+import { requireAdmin, requirePermission, requireUser } from "~/.server/permissions";
 import { ProgramError, createProgram, listProgramsOf } from "~/.server/programs";
 import { invalid, parseForm, readForm } from "~/.server/forms";
 import { listTrialsByProgram } from "~/.server/trials";
 import { cacheResponse } from "~/.server/response-cache";
+import { BriefList } from "~/components/brief-list";
 import { Field, FormMessage, SubmitButton } from "~/components/form";
 import { Empty, PageHeader, Section, StatusBadge, DESIGN_LABELS } from "~/components/page";
-import { ROLE_LABELS } from "~/permissions";
+import { ROLE_LABELS, roleCan } from "~/permissions";
 import type { Route } from "./+types/home";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your programs · Tilthmark" }];
@@ -18,8 +20,24 @@ export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const programs = await listProgramsOf(request, user.id);
-  const trials = await listTrialsByProgram(programs.map((p) => p.id));
-  return { user: { name: user.name, isAdmin: user.isAdmin }, programs: programs.map((p) => ({ ...p, trials: trials.get(p.id) ?? [] })) };
+  // Roles with results.view see the program's trials (and can open them); the others (extension
+  // agents) see its published field briefs instead, never a link to a page they would be refused.
+  const withData = programs.filter((p) => roleCan(p.role, "results.view"));
+  const briefsOnly = programs.filter((p) => !roleCan(p.role, "results.view"));
+  const [trials, briefs] = await Promise.all([
+    listTrialsByProgram(withData.map((p) => p.id)),
+    Promise.all(
+      briefsOnly.map(async (p) => {
+        const member = await requirePermission(request, { programId: p.id }, "briefs.view");
+        const list = await listBriefs({ programId: member.programId });
+        return [p.id, list.map((b) => ({ ...b, publishedAt: b.publishedAt.toISOString() }))] as const;
+      }),
+    ).then((entries) => new Map(entries)),
+  ]);
+  return {
+    user: { name: user.name, isAdmin: user.isAdmin },
+    programs: programs.map((p) => ({ ...p, trials: trials.get(p.id) ?? [], briefs: briefs.get(p.id) ?? null })),
+  };
 }
 
 const NewProgram = z.object({
@@ -47,7 +65,11 @@ export default function Home() {
       <PageHeader
         eyebrow="Overview"
         title={`Welcome, ${user.name.split(" ")[0]}`}
-        lead="Your programs and their trials. Open a trial to see its layout, lab data and results."
+        lead={
+          programs.length > 0 && programs.every((p) => p.briefs)
+            ? "The field briefs published in your programs. Open one to read, print or download it."
+            : "Your programs and their trials. Open a trial to see its layout, lab data and results."
+        }
       />
       {programs.length === 0 && !user.isAdmin && (
         <Empty>You are not a member of any program yet. Ask a program owner to invite you.</Empty>
@@ -63,7 +85,15 @@ export default function Home() {
             </span>
           }
         >
-          {program.trials.length === 0 ? (
+          {program.briefs ? (
+            <>
+              <h3 className="mb-2 text-sm font-medium text-loam-800">Published field briefs</h3>
+              <BriefList
+                briefs={program.briefs}
+                empty="No field briefs have been published yet. When researchers in this program publish one, it appears here, ready to read, print and download."
+              />
+            </>
+          ) : program.trials.length === 0 ? (
             <Empty>No trials in this program yet.</Empty>
           ) : (
             <ul className="grid gap-3 sm:grid-cols-2">

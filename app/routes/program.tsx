@@ -4,6 +4,7 @@ import { listBriefs } from "~/.server/briefs";
 import { listMembers } from "~/.server/programs";
 import { listSites, listTrials } from "~/.server/trials";
 import { cacheResponse } from "~/.server/response-cache";
+import { BriefList } from "~/components/brief-list";
 import { buttonClass } from "~/components/form";
 import { DESIGN_LABELS, Empty, PageHeader, Section, StatusBadge } from "~/components/page";
 import { ROLE_LABELS, roleCan } from "~/permissions";
@@ -126,25 +127,15 @@ export default function ProgramPage() {
         </>
       ) : null}
       <Section title="Field briefs">
-        {briefs.length === 0 ? (
-          <Empty>
-            No field briefs have been published in this program yet. When researchers publish one, it appears here with its
-            summary table and cautions, ready to read, print and download.
-          </Empty>
-        ) : (
-          <ul className="divide-y divide-loam-200 rounded-lg border border-loam-200 bg-white">
-            {briefs.map((b) => (
-              <li key={b.id} className="px-4 py-3">
-                <Link to={`/briefs/${b.id}`} className="font-medium">
-                  {b.title}
-                </Link>
-                <p className="text-sm text-loam-700">
-                  {b.trialTitle} · version {b.version}, {b.publishedAt.slice(0, 10)} · {b.authors}
-                </p>
-              </li>
-            ))}
-          </ul>
-        )}
+        <BriefList
+          briefs={briefs}
+          empty={
+            <>
+              No field briefs have been published in this program yet. When researchers publish one, it appears here with its
+              summary table and cautions, ready to read, print and download.
+            </>
+          }
+        />
       </Section>
     </>
   );
