@@ -8,9 +8,9 @@ const row = "border-t border-loam-200";
 /** A p-value (or its row's finding) below α is set bold. */
 const significant = (yes: boolean) => (yes ? " font-semibold text-moss-900" : "");
 
-/** A column heading: text columns are left-aligned, numeric ones (made with `num`) right-aligned. */
-type Column = string | { label: string; numeric: true };
-const num = (label: string): Column => ({ label, numeric: true });
+/** A column heading: text left-aligned, numbers (made with `num`) right-aligned, the letters centred. */
+type Column = string | { label: string; align: "right" | "center" };
+const num = (label: string): Column => ({ label, align: "right" });
 
 /** The frame every results table shares: scrolling box, hidden caption, headings, then the rows. */
 function ResultTable({ caption, columns, children, note }: { caption: string; columns: Column[]; children: ReactNode; note?: ReactNode }) {
@@ -26,7 +26,7 @@ function ResultTable({ caption, columns, children, note }: { caption: string; co
                   {c}
                 </th>
               ) : (
-                <th key={i} scope="col" className="px-3 py-2 text-right font-medium">
+                <th key={i} scope="col" className={`px-3 py-2 font-medium ${c.align === "center" ? "text-center" : "text-right"}`}>
                   {c.label}
                 </th>
               ),
@@ -100,7 +100,7 @@ export function MeansTable({ results, decimals, unit }: { results: ResultsPayloa
   return (
     <ResultTable
       caption="Treatment means"
-      columns={["Treatment", num("n"), num(`Mean ± SE (${unit})`), "Group", num("Difference from check"), num(`${level} % CI`), num("p")]}
+      columns={["Treatment", num("n"), num(`Mean ± SE (${unit})`), { label: "Group", align: "center" }, num("Difference from check"), num(`${level} % CI`), num("p")]}
       note={note}
     >
       {results.means.map((m) => (

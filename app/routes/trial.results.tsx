@@ -67,6 +67,8 @@ export default function ResultsPage({ params }: Route.ComponentProps) {
   const seasonOptions = options.seasons.filter((s) => model !== "change_from_baseline" || !s.isBaseline);
   const chosenDepth = view ? `${view.selection.depth.topCm}-${view.selection.depth.bottomCm}` : (query?.depth ?? "");
   const seasonShown = view?.results.season ?? query?.season ?? "";
+  // Rates of change are per year; every other model is in the variable's own unit.
+  const valueUnit = view ? `${view.selection.variable.unit}${model === "rate_of_change" ? "/yr" : ""}` : "";
   return (
     <div className="flex flex-col gap-8">
       <Form
@@ -151,14 +153,14 @@ export default function ResultsPage({ params }: Route.ComponentProps) {
           <Section title="Analysis of variance">
             <AnovaTable results={view.results} />
             <p className="num mt-2 text-sm text-loam-700">
-              Grand mean {formatNumber(view.results.grandMean, view.selection.variable.decimals + 1)} {view.selection.variable.unit} · CV{" "}
+              Grand mean {formatNumber(view.results.grandMean, view.selection.variable.decimals + 1)} {valueUnit} · CV{" "}
               {formatNumber(view.results.cvPercent, 1)} %
               {view.results.cvPercentMainPlot !== null && <> · CV(a) {formatNumber(view.results.cvPercentMainPlot, 1)} %</>}
               {view.results.sphericity && <> · Greenhouse–Geisser ε {formatNumber(view.results.sphericity.epsilon, 3)}</>}
             </p>
           </Section>
           <Section title={model === "change_from_baseline" ? "Change from baseline by treatment" : model === "rate_of_change" ? "Rate of change by treatment (per year)" : "Treatment means"}>
-            <MeansTable results={view.results} decimals={view.selection.variable.decimals} unit={model === "rate_of_change" ? `${view.selection.variable.unit}/yr` : view.selection.variable.unit} />
+            <MeansTable results={view.results} decimals={view.selection.variable.decimals} unit={valueUnit} />
             {view.results.notes.length > 0 && (
               <ul className="mt-3 list-disc space-y-1 pl-5 text-sm text-loam-800">
                 {view.results.notes.map((n) => (
