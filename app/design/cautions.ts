@@ -1,4 +1,4 @@
-// DESIGN.md "Cautions, shown where the work happens": the amendment and application-sheet wording, in one place.
+// DESIGN.md "Cautions, shown where the work happens": the amendment, application-sheet and sampling wording, in one place.
 
 export const PATHOGEN_HANDLING_CAUTION =
   "Manure and immature compost can carry pathogens. Wear gloves, wash hands and tools after handling, keep it off " +
@@ -7,6 +7,11 @@ export const PATHOGEN_HANDLING_CAUTION =
 export const NUTRIENT_LOADING_CAUTION =
   "The nitrogen and phosphorus that amendments add fall under local nutrient-management rules; large or repeated " +
   "rates can exceed them. Check the loads below against the rules that apply to the site.";
+
+/** Wherever the crew drives a probe, ring or stake into the ground or digs: the sampling pages, the plot map and the application sheet. */
+export const BURIED_UTILITIES_CAUTION =
+  "Locate buried utilities before driving a probe, ring or stake or digging: call your local utility-locating (one-call) " +
+  "service, wait for the marks, and follow the local rules for working near them.";
 
 export const DEFER_TO_LOCAL =
   "Tilthmark gives estimates for research, not regulatory compliance: local codes, institutional safety offices and " +

@@ -173,6 +173,14 @@ export default function BriefPage() {
   );
 }
 
+/**
+ * The treatment column stays in view while the table scrolls sideways on a phone; opaque, like the page. Its
+ * lines are inset shadows because the opaque background covers the row's collapsed border; on paper it is a plain cell.
+ */
+const STICKY_NAME = "sticky left-0 z-10 min-w-28 bg-white print:static print:shadow-none";
+const STICKY_NAME_ROW = `${STICKY_NAME} shadow-[inset_0_-1px_0_var(--color-loam-200)] max-sm:shadow-[inset_-1px_-1px_0_var(--color-loam-200)]`;
+const STICKY_NAME_HEAD = `${STICKY_NAME} max-sm:shadow-[inset_-1px_0_0_var(--color-loam-200)]`;
+
 function BriefSectionView({ section, units }: { section: BriefSection; units: UnitSystem }) {
   const unit = unitLabel(section, units);
   const show = (v: number | null) => formatNumber(inReaderUnits(section, v, units), section.variable.decimals);
@@ -186,11 +194,22 @@ function BriefSectionView({ section, units }: { section: BriefSection; units: Un
         {section.season}
         {section.baselineSeason && <> compared with the baseline ({section.baselineSeason})</>} · {section.method === "tukey" ? "Tukey–Kramer" : "protected LSD"}, α = {section.alpha}
       </p>
-      <div className="mt-3 overflow-x-auto">
+      <p className="mt-3 text-xs text-loam-600 sm:hidden print:hidden" aria-hidden="true">
+        Scroll the table sideways for the difference from the check and p. →
+      </p>
+      {/* On a phone the table scrolls inside this box (treatment names stay put); the page itself never scrolls sideways. */}
+      <div
+        className="mt-1 overflow-x-auto sm:mt-3 print:overflow-visible"
+        tabIndex={0}
+        role="region"
+        aria-label={`${section.variable.label}, ${section.depthLabel}: treatment means and differences`}
+      >
         <table className="w-full text-sm">
           <thead className="border-b-2 border-loam-900 text-left">
             <tr>
-              <th scope="col" className="py-1.5 pr-3 font-medium">Treatment</th>
+              <th scope="col" className={`${STICKY_NAME_HEAD} py-1.5 pr-3 font-medium`}>
+                Treatment
+              </th>
               <th scope="col" className="px-2 py-1.5 text-right font-medium">Mean ({unit})</th>
               <th scope="col" className="px-2 py-1.5 text-right font-medium">Change since baseline</th>
               <th scope="col" className="px-2 py-1.5 text-center font-medium">Group</th>
@@ -201,16 +220,16 @@ function BriefSectionView({ section, units }: { section: BriefSection; units: Un
           <tbody>
             {section.rows.map((r) => (
               <tr key={r.code} className="border-b border-loam-200">
-                <th scope="row" className="py-1.5 pr-3 text-left font-normal">
+                <th scope="row" className={`${STICKY_NAME_ROW} py-1.5 pr-3 text-left font-normal`}>
                   {r.name}
                   {r.isCheck && <span className="ml-1 text-xs text-loam-600">(check)</span>}
                 </th>
                 <td className="num px-2 py-1.5 text-right">{show(r.mean)}</td>
-                <td className="num px-2 py-1.5 text-right">
+                <td className="num px-2 py-1.5 text-right whitespace-nowrap">
                   {r.change === null ? "—" : `${show(r.change)} (${formatNumber(r.changePercent, 0)} %)`}
                 </td>
                 <td className="num px-2 py-1.5 text-center">{r.group}</td>
-                <td className="num px-2 py-1.5 text-right">
+                <td className="num px-2 py-1.5 text-right whitespace-nowrap">
                   {r.vsCheck ? `${show(r.vsCheck.diff)} (${show(r.vsCheck.lower)} to ${show(r.vsCheck.upper)})` : "—"}
                 </td>
                 <td className="num py-1.5 pl-2 text-right whitespace-nowrap">{r.vsCheck ? formatP(r.vsCheck.p) : ""}</td>
@@ -218,8 +237,8 @@ function BriefSectionView({ section, units }: { section: BriefSection; units: Un
             ))}
           </tbody>
         </table>
-        <p className="mt-1 text-xs text-loam-600">Treatments sharing a group letter did not differ; ‘a’ is the highest mean.</p>
       </div>
+      <p className="mt-1 text-xs text-loam-600">Treatments sharing a group letter did not differ; ‘a’ is the highest mean.</p>
       <FrozenChart section={section} units={units} />
     </section>
   );

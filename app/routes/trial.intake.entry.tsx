@@ -5,7 +5,7 @@ import { currentInputsOfEvent, saveEntries, type EntryRow } from "~/.server/inta
 import { IntakeError } from "~/.server/intake/errors";
 import { getEvent, listEventSamples } from "~/.server/intake/events";
 import { FormMessage, SubmitButton } from "~/components/form";
-import { RowMessages } from "~/components/intake-messages";
+import { MessageBlock, RowMessages } from "~/components/intake-messages";
 import { Caution, CheckboxField } from "~/components/more-fields";
 import type { Route } from "./+types/trial.intake.entry";
 import { readForm } from "~/.server/forms";
@@ -77,6 +77,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
 }
 
+/** The sample column stays in view while the grid scrolls sideways; each cell sets an opaque background so inputs never show through. */
+const STICKY_SAMPLE = "sticky left-0 z-10 shadow-[inset_-1px_0_0_var(--color-loam-200)]";
+
 export default function EntryPage() {
   const d = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
@@ -113,14 +116,16 @@ export default function EntryPage() {
         {failed && <FormMessage>{failed.message}</FormMessage>}
       </div>
       <Form method="post" noValidate key={ok ?? "grid"}>
-        <div className="overflow-x-auto rounded-lg border border-loam-200 bg-white">
+        <div className="@container overflow-x-auto rounded-lg border border-loam-200 bg-white">
           <table className="w-full border-collapse text-left text-sm">
             <caption className="sr-only">
               {d.kind.label} for each sample of event {d.event.code}
             </caption>
             <thead className="bg-loam-100 text-loam-800">
               <tr>
-                <th scope="col" className="px-2 py-2 font-medium">Sample</th>
+                <th scope="col" className={`${STICKY_SAMPLE} bg-loam-100 px-2 py-2 font-medium`}>
+                  Sample
+                </th>
                 {d.fields.map((f) => (
                   <th key={f.key} scope="col" className="px-2 py-2 font-medium">
                     {f.label}
@@ -133,9 +138,10 @@ export default function EntryPage() {
               {d.rows.flatMap((r) => {
                 const messages = (failed?.rows as Record<string, { severity: "error" | "warning"; column: string | null; message: string }[]> | undefined)?.[r.code];
                 const reasonError = (failed?.reasons as Record<string, string> | undefined)?.[r.code];
+                const hasError = messages?.some((m) => m.severity === "error");
                 return [
-                  <tr key={r.code} className={`border-t border-loam-200 ${messages?.some((m) => m.severity === "error") ? "bg-brick-50/60" : ""}`}>
-                    <th scope="row" className="num px-2 py-1 text-left font-normal whitespace-nowrap">
+                  <tr key={r.code} className={`border-t border-loam-200 ${hasError ? "bg-brick-50/60" : ""}`}>
+                    <th scope="row" className={`${STICKY_SAMPLE} num px-2 py-1 text-left font-normal whitespace-nowrap ${hasError ? "bg-brick-50" : "bg-white"}`}>
                       {r.code}
                       {r.excluded && <span className="ml-1 rounded bg-clay-100 px-1 text-xs text-clay-800">excluded</span>}
                     </th>
@@ -167,9 +173,11 @@ export default function EntryPage() {
                   </tr>,
                   (messages || reasonError) && (
                     <tr key={`${r.code}-m`} className="bg-brick-50/40">
-                      <td colSpan={d.fields.length + 2} className="px-2 pb-2">
-                        {messages && <RowMessages rowLabel={`sample ${r.code}`} messages={messages} />}
-                        {reasonError && <p className="text-sm text-brick-700">{reasonError}</p>}
+                      <td colSpan={d.fields.length + 2} className="p-0">
+                        <MessageBlock>
+                          {messages && <RowMessages rowLabel={`sample ${r.code}`} messages={messages} />}
+                          {reasonError && <p className="text-sm text-brick-700">{reasonError}</p>}
+                        </MessageBlock>
                       </td>
                     </tr>
                   ),

@@ -8,6 +8,7 @@ import { DELIMITER_LABELS } from "~/.server/intake/parse";
 import { commitUpload, discardUpload, reviewUpload, saveColumnMapping } from "~/.server/intake/uploads";
 import { FormMessage, SubmitButton, buttonClass } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
+import { MessageBlock, RowMessages } from "~/components/intake-messages";
 import { Caution, CheckboxField } from "~/components/more-fields";
 import { Pager, Section } from "~/components/page";
 import { formatNumber } from "~/format";
@@ -253,7 +254,8 @@ export default function ReviewPage() {
             </div>
           )}
 
-          <div className="overflow-x-auto rounded-lg border border-loam-200 bg-white">
+          {/* A container for the messages below: each one is as wide as the visible part of the table, not the whole table. */}
+          <div className="@container overflow-x-auto rounded-lg border border-loam-200 bg-white">
             <table className="w-full border-collapse text-left text-sm">
               <caption className="sr-only">Rows of the file with their status</caption>
               <thead className="bg-loam-100 text-loam-800">
@@ -303,21 +305,17 @@ export default function ReviewPage() {
                   </tr>,
                   r.messages.length > 0 && (
                     <tr key={`${r.index}-m`} className={r.status === "error" ? "bg-brick-50/60" : "bg-clay-100/40"}>
-                      <td />
-                      <td colSpan={3 + d.inputColumns.length + d.derivedColumns.length} className="px-2 pb-2">
-                        <ul className="space-y-0.5">
-                          {r.messages.map((m, i) => (
-                            <li key={i} className={m.severity === "error" ? "text-brick-700" : "text-clay-800"}>
-                              <strong>{m.severity === "error" ? "Error" : "Warning"}</strong>, row <span className="num">{r.rowNumber}</span>
-                              {m.column && (
-                                <>
-                                  , column <span className="num">{m.column}</span>
-                                </>
-                              )}
-                              : {m.message}
-                            </li>
-                          ))}
-                        </ul>
+                      <td colSpan={4 + d.inputColumns.length + d.derivedColumns.length} className="p-0">
+                        <MessageBlock>
+                          <RowMessages
+                            rowLabel={
+                              <>
+                                row <span className="num">{r.rowNumber}</span>
+                              </>
+                            }
+                            messages={r.messages}
+                          />
+                        </MessageBlock>
                       </td>
                     </tr>
                   ),

@@ -81,8 +81,8 @@ export default function IntakePage() {
           <p>Muffle furnaces run at 550 °C and crucibles stay hot long after: use tongs and heat-resistant gloves, and let crucibles cool in a desiccator before weighing.</p>
         </Caution>
       </div>
-      <div className="grid gap-10 lg:grid-cols-[3fr_2fr]">
-        <div>
+      <div className="grid grid-cols-1 gap-10 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+        <div className="min-w-0">
           <Section title="Upload lab results">
             <Form method="post" encType="multipart/form-data" className="flex flex-col gap-4 rounded-lg border border-loam-200 bg-white p-4" noValidate>
               <SelectField
@@ -108,7 +108,7 @@ export default function IntakePage() {
                     const f = e.currentTarget.files?.[0];
                     setSizeProblem(f && f.size > maxBytes ? `The file is ${(f.size / 1024 / 1024).toFixed(1)} MB; lab intake takes files up to 20 MB. Split it into several files (for example one per sampling event).` : null);
                   }}
-                  className="rounded-md border border-loam-400 bg-white px-3 py-2 text-base file:mr-3 file:rounded file:border-0 file:bg-loam-100 file:px-3 file:py-1"
+                  className="w-full min-w-0 rounded-md border border-loam-400 bg-white px-3 py-2 text-base file:mr-3 file:rounded file:border-0 file:bg-loam-100 file:px-3 file:py-1"
                 />
                 <p id="field-file-hint" className="text-sm text-loam-600">
                   UTF-8 text (“CSV UTF-8” in spreadsheets), with or without a byte-order mark. Nothing is stored in the trial until you review and commit.
@@ -164,7 +164,7 @@ export default function IntakePage() {
             )}
           </Section>
         </div>
-        <aside>
+        <aside className="min-w-0">
           <Section title="Templates">
             <p className="mb-3 text-sm text-loam-700">
               Each template lists the event's sample codes with Tilthmark's column names. Fill in the lab's numbers and upload it as it is.

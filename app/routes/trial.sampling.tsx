@@ -9,6 +9,7 @@ import { Field, FormMessage, SubmitButton } from "~/components/form";
 import { formState } from "~/components/form-state";
 import { Caution, CheckboxField } from "~/components/more-fields";
 import { Empty, Section } from "~/components/page";
+import { BURIED_UTILITIES_CAUTION } from "~/design/cautions";
 import type { Route } from "./+types/trial.sampling";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sampling · Tilthmark" }];
@@ -69,53 +70,56 @@ export default function SamplingPage() {
   const { errors, values, message } = formState(result);
   const ok = result && "ok" in result ? result : undefined;
   return (
-    <div className="grid gap-10 lg:grid-cols-[2fr_1fr]">
-      <div>
+    <div className="grid grid-cols-1 gap-10 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
+      <div className="min-w-0">
         <Section title={`Sampling events (${events.length})`}>
           {events.length === 0 ? (
             <Empty>No sampling events yet. Create the first one (usually the pre-treatment baseline) with the form.</Empty>
           ) : (
-            <table className="w-full border-collapse rounded-lg bg-white text-left text-sm shadow-xs">
-              <thead className="bg-loam-100 text-loam-800">
-                <tr>
-                  <th scope="col" className="px-3 py-2 font-medium">Event</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Season</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Date</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Depths (cm)</th>
-                  <th scope="col" className="px-3 py-2 text-right font-medium">Samples</th>
-                  <th scope="col" className="px-3 py-2 text-right font-medium">Results in</th>
-                  <th scope="col" className="px-3 py-2 font-medium"><span className="sr-only">Sheets</span></th>
-                </tr>
-              </thead>
-              <tbody>
-                {events.map((e) => (
-                  <tr key={e.id} className="border-t border-loam-200 align-top">
-                    <td className="num px-3 py-2">{e.code}</td>
-                    <td className="px-3 py-2">
-                      {e.season}
-                      {e.isBaseline && <span className="ml-2 rounded bg-clay-100 px-1.5 py-0.5 text-xs text-clay-800">baseline</span>}
-                    </td>
-                    <td className="num px-3 py-2">{e.eventDate}</td>
-                    <td className="num px-3 py-2">{e.depths}</td>
-                    <td className="num px-3 py-2 text-right">{e.sampleCount}</td>
-                    <td className="num px-3 py-2 text-right">
-                      {e.variables.map((v) => `${v.toUpperCase()} ${e.measured[v] ?? 0}`).join(" · ")}
-                    </td>
-                    <td className="px-3 py-2">
-                      <Link to={`/trials/${trialId}/sampling/sheet?event=${e.id}`}>Sample sheet</Link>
-                    </td>
+            // Positioned, so the sr-only heading inside scrolls with the table instead of widening the page.
+            <div className="relative overflow-x-auto rounded-lg bg-white shadow-xs">
+              <table className="w-full border-collapse text-left text-sm">
+                <thead className="bg-loam-100 text-loam-800">
+                  <tr>
+                    <th scope="col" className="px-3 py-2 font-medium">Event</th>
+                    <th scope="col" className="px-3 py-2 font-medium">Season</th>
+                    <th scope="col" className="px-3 py-2 font-medium">Date</th>
+                    <th scope="col" className="px-3 py-2 font-medium">Depths (cm)</th>
+                    <th scope="col" className="px-3 py-2 text-right font-medium">Samples</th>
+                    <th scope="col" className="px-3 py-2 text-right font-medium">Results in</th>
+                    <th scope="col" className="px-3 py-2 font-medium"><span className="sr-only">Sheets</span></th>
                   </tr>
-                ))}
-              </tbody>
-            </table>
+                </thead>
+                <tbody>
+                  {events.map((e) => (
+                    <tr key={e.id} className="border-t border-loam-200 align-top">
+                      <td className="num px-3 py-2">{e.code}</td>
+                      <td className="px-3 py-2">
+                        {e.season}
+                        {e.isBaseline && <span className="ml-2 rounded bg-clay-100 px-1.5 py-0.5 text-xs text-clay-800">baseline</span>}
+                      </td>
+                      <td className="num px-3 py-2 whitespace-nowrap">{e.eventDate}</td>
+                      <td className="num px-3 py-2">{e.depths}</td>
+                      <td className="num px-3 py-2 text-right">{e.sampleCount}</td>
+                      <td className="num px-3 py-2 text-right">
+                        {e.variables.map((v) => `${v.toUpperCase()} ${e.measured[v] ?? 0}`).join(" · ")}
+                      </td>
+                      <td className="px-3 py-2">
+                        <Link to={`/trials/${trialId}/sampling/sheet?event=${e.id}`}>Sample sheet</Link>
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
           )}
         </Section>
         <Caution title="Before coring">
-          <p>Locate buried utilities (call your local one-call service) before driving a probe or ring.</p>
+          <p>{BURIED_UTILITIES_CAUTION}</p>
           <p>Soil cores and full sample bags are heavy: lift with your legs, share the load. In heat, carry water, take shade breaks and watch each other for heat illness.</p>
         </Caution>
       </div>
-      <aside>
+      <aside className="min-w-0">
         <Section title="New sampling event">
           {plots === 0 ? (
             <Empty>This trial has no plots yet. Once its plot map is laid out, each event gets a sample code per plot and depth.</Empty>

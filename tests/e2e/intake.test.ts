@@ -70,4 +70,62 @@ describe("technician", () => {
     expect(await row.locator('td[data-column="soc"]').innerText()).toBe("2.90"); // DESIGN.md: 5.00 % SOM → 2.90 % SOC
     await screenshot(page, "intake-data-table");
   });
+
+  it("reads every intake, sampling and application-sheet page on a 390 px phone without the page scrolling sideways", async () => {
+    const phone = await (await browser.newContext({ viewport: { width: 390, height: 844 } })).newPage(); // a common phone width
+    await signIn(phone, baseUrl, "technician@cedarhollow.example");
+    await phone.getByRole("link", { name: /Rapid organic-matter building/ }).first().click();
+    await phone.waitForURL(/\/trials\/[^/]+/);
+    const trial = new URL(phone.url()).pathname.match(/^\/trials\/[^/]+/)![0];
+    const pageWidth = () => phone.evaluate(() => document.documentElement.scrollWidth);
+
+    await phone.goto(`${baseUrl}${trial}/briefs`);
+    const brief = await phone.locator('a[href^="/briefs/"]').first().getAttribute("href");
+    for (const path of [`${trial}/application-sheet`, `${trial}/sampling`, `${trial}/intake`, brief!]) {
+      await phone.goto(`${baseUrl}${path}`);
+      await phone.waitForLoadState("networkidle");
+      expect.soft({ path, width: await pageWidth() }).toEqual({ path, width: 390 });
+    }
+    // The application sheet carries the sampling pages' buried-utilities caution (app/design/cautions.ts).
+    await phone.goto(`${baseUrl}${trial}/application-sheet`);
+    await phone.waitForLoadState("networkidle");
+    expect.soft(await phone.getByText("Locate buried utilities before driving a probe, ring or stake").count()).toBe(1);
+    await screenshot(phone, "phone-application-sheet");
+
+    // The hand-entry grid scrolls inside its box; the sample column stays in view, opaque over the inputs.
+    await phone.goto(`${baseUrl}${trial}/intake`);
+    await phone.getByRole("link", { name: "Enter by hand" }).first().click();
+    const grid = phone.locator("form .overflow-x-auto");
+    await grid.scrollIntoViewIfNeeded();
+    expect.soft(await pageWidth()).toBe(390);
+    const sample = await grid.evaluate((box) => {
+      box.scrollLeft = box.scrollWidth;
+      const cell = box.querySelector("tbody th[scope=row]")!;
+      const [c, b] = [cell.getBoundingClientRect(), box.getBoundingClientRect()];
+      return { scrolled: box.scrollLeft > 0, inView: c.left >= b.left && c.right <= b.right, opaque: getComputedStyle(cell).backgroundColor };
+    });
+    expect.soft(sample).toEqual({ scrolled: true, inView: true, opaque: "rgb(255, 255, 255)" });
+    await screenshot(phone, "phone-entry-grid-scrolled");
+
+    // Row messages in the upload review wrap inside the visible part of the table, however wide it is.
+    await phone.goto(`${baseUrl}${trial}/intake`);
+    await phone.getByLabel("What the file holds").selectOption("loi");
+    const header = "sample_code,crucible_g,crucible_dry_soil_g,crucible_residue_g,ignition_c,ignition_hours,lab_id,notes";
+    const file = `${header}\nNO-SUCH-SAMPLE-0-10,20.000,30.000,29.500,550,4,,\n`;
+    await phone.getByLabel("CSV file (up to 20 MB)").setInputFiles({ name: "phone.csv", mimeType: "text/csv", buffer: Buffer.from(file) });
+    await phone.getByRole("button", { name: "Upload and check" }).click();
+    const message = phone.locator("tbody li").first();
+    await message.waitFor();
+    expect.soft(await pageWidth()).toBe(390);
+    const fits = await message.evaluate((li) => {
+      const box = li.closest(".overflow-x-auto")!.getBoundingClientRect();
+      const text = li.getBoundingClientRect();
+      return { left: text.left >= box.left, right: text.right <= box.right };
+    });
+    expect.soft(fits).toEqual({ left: true, right: true });
+    await screenshot(phone, "phone-intake-review");
+    await phone.getByRole("button", { name: "Set this upload aside" }).click();
+    await phone.getByLabel("CSV file (up to 20 MB)").waitFor();
+    await phone.close();
+  });
 });
