@@ -22,6 +22,11 @@ function lengthText(metres: number, system: "si" | "us") {
   return `${formatNumber(value, 1)} ${unit}`;
 }
 
+/** About how wide a line of text is drawn (IBM Plex Sans averages a little over half an em per character). */
+function textWidth(text: string, fontSize: number, emPerChar = 0.55): number {
+  return text.length * fontSize * emPerChar;
+}
+
 /** A round scale-bar length near a quarter of the field width, in display units. */
 function scaleBarLength(fieldDisplayWidth: number): number {
   const target = fieldDisplayWidth / 4;
@@ -43,7 +48,7 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
   const y0 = PAD + HEADER_H + topLabelH + 28;
   const fieldW = geo.widthM * scale;
   const fieldH = geo.heightM * scale;
-  const width = Math.max(x0 + fieldW + SIDE_W, 680);
+  const mapWidth = Math.max(x0 + fieldW + SIDE_W, 680);
   const legendY = y0 + fieldH + 56;
   const footY = legendY + treatments.length * LEGEND_ROW + 16;
   const height = footY + 66;
@@ -81,6 +86,26 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
     trial.status === "draft"
       ? "Draft: may still be re-randomized; do not stake out until locked"
       : `Locked ${trial.lockedAt ? trial.lockedAt.slice(0, 10) : ""}${trial.status !== "locked" ? ` · ${trial.status}` : ""}`;
+  const summaryText = [trial.siteName, DESIGN_LABELS[trial.design], `${blockCount} ${blocked ? "blocks" : "rows"} × ${treatments.length} treatments = ${plotCount} plots`]
+    .filter(Boolean)
+    .join(" · ");
+  const seedText = ` · ${trial.arrangement} numbering · ${statusLine}`;
+  const sizeNote =
+    `Each plot ${lengthText(trial.plotWidthM, unitSystem)} wide × ${lengthText(trial.plotLengthM, unitSystem)} long; ` +
+    `alleys ${lengthText(trial.alleyBetweenPlotsM, unitSystem)} between plots, ${lengthText(trial.alleyBetweenBlocksM, unitSystem)} between ${blocked ? "blocks" : "rows"}.`;
+  const numberingNote =
+    `Plot number = ${blocked ? "block" : "row"} × 100 + position${trial.arrangement === "serpentine" ? ", every second " + (blocked ? "block" : "row") + " numbered back the other way" : ""}. ` +
+    `${blocked ? "Blocks" : "Rows"} laid as ${rows ? `rows (${axes.across})` : `columns (${axes.along})`}, ${orientationText(bearing)}.`;
+  // Wide enough for the longest line of text, so nothing is cut off at the right edge.
+  const width = Math.max(
+    mapWidth,
+    PAD * 2 + textWidth(trial.title, 18, 0.6),
+    PAD * 2 + textWidth(summaryText, 12.5),
+    PAD * 2 + textWidth(`Randomization seed ${trial.seed ?? "—"}${seedText}`, 12.5, 0.58),
+    PAD * 2 + textWidth(sizeNote, 11.5),
+    PAD * 2 + textWidth(numberingNote, 11.5),
+    ...treatments.map((t) => PAD * 2 + 24 + textWidth(`${t.code}  ${t.name} (untreated check)`, 12.5)),
+  );
   const titleId = `plot-map-title-${trial.id}`;
   const descId = `plot-map-desc-${trial.id}`;
 
@@ -95,6 +120,7 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
       fontFamily={FONT}
       style={{ maxWidth: "100%", height: "auto", background: "#ffffff" }}
       data-testid="plot-map"
+      className="plot-map"
     >
       <title id={titleId}>{`Plot map: ${trial.title}`}</title>
       <desc id={descId}>
@@ -114,14 +140,12 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
         {trial.title}
       </text>
       <text x={PAD} y={PAD + 38} fontSize="12.5" fill={LABEL_INK}>
-        {[trial.siteName, DESIGN_LABELS[trial.design], `${blockCount} ${blocked ? "blocks" : "rows"} × ${treatments.length} treatments = ${plotCount} plots`]
-          .filter(Boolean)
-          .join(" · ")}
+        {summaryText}
       </text>
       <text x={PAD} y={PAD + 58} fontSize="12.5" fill={LABEL_INK}>
         <tspan>Randomization seed </tspan>
         <tspan fontFamily={MONO}>{trial.seed ?? "—"}</tspan>
-        <tspan>{` · ${trial.arrangement} numbering · ${statusLine}`}</tspan>
+        <tspan>{seedText}</tspan>
       </text>
 
       {/* Overall dimensions */}
@@ -252,12 +276,10 @@ export function PlotMapSvg({ data }: { data: PlotMapData }) {
 
       {/* Notes */}
       <text x={PAD} y={r1(footY + 4)} fontSize="11.5" fill={LABEL_INK}>
-        {`Each plot ${lengthText(trial.plotWidthM, unitSystem)} wide × ${lengthText(trial.plotLengthM, unitSystem)} long; ` +
-          `alleys ${lengthText(trial.alleyBetweenPlotsM, unitSystem)} between plots, ${lengthText(trial.alleyBetweenBlocksM, unitSystem)} between ${blocked ? "blocks" : "rows"}.`}
+        {sizeNote}
       </text>
       <text x={PAD} y={r1(footY + 22)} fontSize="11.5" fill={LABEL_INK}>
-        {`Plot number = ${blocked ? "block" : "row"} × 100 + position${trial.arrangement === "serpentine" ? ", every second " + (blocked ? "block" : "row") + " numbered back the other way" : ""}. ` +
-          `${blocked ? "Blocks" : "Rows"} laid as ${rows ? `rows (${axes.across})` : `columns (${axes.along})`}, ${orientationText(bearing)}.`}
+        {numberingNote}
       </text>
       {trial.design === "split_plot" && (
         <text x={PAD} y={r1(footY + 40)} fontSize="11.5" fill={LABEL_INK}>

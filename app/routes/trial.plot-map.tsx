@@ -8,7 +8,9 @@ import { notFound, requirePermission } from "~/.server/permissions";
 import { cacheResponse } from "~/.server/response-cache";
 import { buttonClass, Field, FormMessage, SubmitButton } from "~/components/form";
 import { formState, outcomeOf } from "~/components/form-state";
+import { Caution } from "~/components/more-fields";
 import { PlotMapPanel } from "~/components/plot-map-panel";
+import { BURIED_UTILITIES_CAUTION } from "~/design/cautions";
 import { orientationText } from "~/design/plot-map";
 import { roleCan } from "~/permissions";
 import type { Route } from "./+types/trial.plot-map";
@@ -62,6 +64,13 @@ export default function PlotMapPage() {
           {trial.status === "draft" && (
             <p className="text-sm text-clay-800">Draft layout: it may still be re-randomized. Stake out plots only after the design is locked.</p>
           )}
+        </div>
+      )}
+      {plots > 0 && (
+        <div className="mb-4">
+          <Caution title="Before staking out plots">
+            <p>{BURIED_UTILITIES_CAUTION}</p>
+          </Caution>
         </div>
       )}
       <PlotMapPanel trialId={trial.id} version={`${trial.seed}-${plots}-${trial.status}-${trial.mapBearingDeg}`} />
