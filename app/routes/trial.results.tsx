@@ -1,4 +1,5 @@
 import { Form, Link, useLoaderData, useNavigation, useSubmit } from "react-router";
+import { getTrial } from "~/.server/design/trials";
 import { requirePermission } from "~/.server/permissions";
 import { contrastsView } from "~/.server/results/contrasts";
 import { parseResultsQuery, ResultsError, trialData, trialResults, type ResultsView } from "~/.server/results/service";
@@ -22,12 +23,14 @@ export const middleware: Route.MiddlewareFunction[] = [cacheResponse];
 export async function loader({ request, params }: Route.LoaderArgs) {
   const member = await requirePermission(request, { trialId: params.trialId }, "results.view");
   const url = new URL(request.url);
-  const data = await trialData(params.trialId);
+  const [data, trial] = await Promise.all([trialData(params.trialId), getTrial(params.trialId)]);
   const options = {
     variables: data.variables,
     depths: data.depths,
     seasons: data.seasons,
     design: data.trial.design,
+    // Without a lab method's calibration, SOM is taken equal to LOI (the two variables then agree).
+    somIsLoi: !trial?.labMethodId,
   };
   const canEditContrasts = roleCan(member.role, "trials.edit");
   const parsed = parseResultsQuery(url);
@@ -149,7 +152,7 @@ export default function ResultsPage({ params }: Route.ComponentProps) {
 
       {view && (
         <>
-          <Summary view={view} />
+          <Summary view={view} somIsLoi={options.somIsLoi} />
           <Section title="Analysis of variance">
             <AnovaTable results={view.results} />
             <p className="num mt-2 text-sm text-loam-700">
@@ -228,7 +231,7 @@ export default function ResultsPage({ params }: Route.ComponentProps) {
   );
 }
 
-function Summary({ view }: { view: ResultsView }) {
+function Summary({ view, somIsLoi }: { view: ResultsView; somIsLoi: boolean }) {
   const { selection, results } = view;
   const missing = results.missing.length;
   return (
@@ -246,6 +249,9 @@ function Summary({ view }: { view: ResultsView }) {
       )}
       {results.excludedCount > 0 && <> · {results.excludedCount} excluded in QC</>}
       {selection.referenceMassMgPerHa !== null && <> · reference mass {formatNumber(selection.referenceMassMgPerHa, 0)} Mg/ha</>}
+      {somIsLoi && (selection.variable.id === "som" || selection.variable.id === "loi") && (
+        <> · SOM is taken equal to LOI: this trial has no LOI-to-SOM calibration (a researcher can set one under Lab method)</>
+      )}
     </p>
   );
 }

@@ -38,6 +38,9 @@ describe("collaborator", () => {
     page.on("console", (m) => m.text().includes("Content Security Policy") && violations.push(m.text()));
     await openResults(page, "collaborator@cedarhollow.example");
 
+    // The demo trial has no LOI-to-SOM calibration, so the page says why SOM and LOI agree.
+    await page.getByText("SOM is taken equal to LOI: this trial has no LOI-to-SOM calibration", { exact: false }).waitFor();
+
     // Means over seasons: Observable Plot draws one path per series in the line mark.
     const lines = chart(page, "season-means").locator('g[aria-label="line"] path');
     await expect.poll(() => lines.count(), { timeout: 20_000 }).toBe(6); // DESIGN.md demo: 6 treatments

@@ -351,7 +351,7 @@ export function validateTable(table: IntakeTable, mapping: ColumnMapping, decima
         column: null,
         message:
           score.method === "studentized"
-            ? `${shown} stands out in ${sample.eventLabel}, ${depth}: its studentized residual in the block + treatment model is ${score.score.toFixed(1)} (beyond ±3). Check the weighings and the sample code; confirm it if it is right.`
+            ? `${shown} is far from what its treatment and block lead one to expect in ${sample.eventLabel}, ${depth} (studentized residual ${score.score.toFixed(1)}, beyond ±3). Check the weighings and the sample code; confirm it if it is right.`
             : `${shown} stands out from the other ${sample.treatment} plots in ${sample.eventLabel}, ${depth} (robust z ${score.score.toFixed(1)}, beyond ±3.5). Check the weighings and the sample code; confirm it if it is right.`,
       });
     }
