@@ -379,6 +379,10 @@ export function fitResults(rows: readonly PlotObservation[], request: ResultsReq
           `Greenhouse–Geisser ε = ${result.sphericity.epsilon.toFixed(3)}; ${result.sphericity.assumption}.`,
           "Treatment means are averaged over seasons; letters within each season compare treatments in that season only.",
         );
+        const baselineSeasons = seasonsInOrder(rows.filter((r) => r.isBaseline));
+        if (baselineSeasons.length > 0) {
+          payload.notes.push(`The baseline (${baselineSeasons.join(", ")}) is left out: it was sampled before the treatments were applied.`);
+        }
         return { payload, anova: result, term, labelToCode, analysed: treatmentRows };
       }
       case "change_from_baseline": {

@@ -124,6 +124,42 @@ export function MeansTable({ results, decimals, unit }: { results: ResultsPayloa
   );
 }
 
+/** Across seasons: each treatment's mean in each season, with letters that compare treatments within that season. */
+export function SeasonMeansTable({ results, decimals, unit }: { results: ResultsPayload; decimals: number; unit: string }) {
+  const names = new Map(results.means.map((m) => [m.code, m.name]));
+  const cell = new Map(results.seasonMeans.flatMap((s) => s.means.map((m) => [`${s.season}|${m.code}`, m] as const)));
+  return (
+    <ResultTable
+      caption={`Treatment means by season (${unit})`}
+      columns={["Treatment", ...results.seasonMeans.map((s) => num(s.season))]}
+      note={<>Means ({unit}) with letters: within one season, means sharing a letter do not differ at α = {results.alpha} ({METHOD_NAMES[results.method]}).</>}
+    >
+      {results.means.map((m) => (
+        <tr key={m.code} className={row}>
+          <RowHead>
+            <span className="num mr-2 text-loam-600">{m.code}</span>
+            {names.get(m.code)}
+          </RowHead>
+          {results.seasonMeans.map((s) => {
+            const c = cell.get(`${s.season}|${m.code}`);
+            return (
+              <td key={s.season} className={tdNum}>
+                {c ? (
+                  <>
+                    {formatNumber(c.mean, decimals)} <span className="font-medium">{c.group}</span>
+                  </>
+                ) : (
+                  "—"
+                )}
+              </td>
+            );
+          })}
+        </tr>
+      ))}
+    </ResultTable>
+  );
+}
+
 export function ComparisonsTable({ results, decimals }: { results: ResultsPayload; decimals: number }) {
   return (
     <ResultTable caption="Pairwise comparisons" columns={["Comparison", num("Difference"), num("SE"), num("df"), num("CI"), num("p (adjusted)")]}>

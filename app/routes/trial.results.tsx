@@ -7,7 +7,7 @@ import { cacheResponse } from "~/.server/response-cache";
 import { ContrastsTable, OrthogonalityNote } from "~/components/contrasts-table";
 import { buttonClass, FormMessage } from "~/components/form";
 import { Empty, Section } from "~/components/page";
-import { AnovaTable, ComparisonsTable, MeansTable, methodsParagraph } from "~/components/results-tables";
+import { AnovaTable, ComparisonsTable, MeansTable, methodsParagraph, SeasonMeansTable } from "~/components/results-tables";
 import { ResultsCharts } from "~/components/results-charts";
 import { formatNumber } from "~/format";
 import { roleCan } from "~/permissions";
@@ -172,6 +172,11 @@ export default function ResultsPage({ params }: Route.ComponentProps) {
               </ul>
             )}
           </Section>
+          {view.results.seasonMeans.length > 0 && (
+            <Section title="Treatment means by season">
+              <SeasonMeansTable results={view.results} decimals={view.selection.variable.decimals} unit={valueUnit} />
+            </Section>
+          )}
           <Section
             title="Contrasts"
             aside={

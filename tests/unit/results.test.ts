@@ -117,6 +117,17 @@ describe("across seasons", () => {
     expect(payload.seasonMeans[0].means.map((m) => m.code).sort()).toEqual(["P1", "P2", "P3"]);
   });
 
+  it("leaves a baseline sampling out of the analysis and says so", () => {
+    const baseline = rows.filter((r) => r.season === "T1").map((r) => ({ ...r, season: "T0", seasonOrder: 0, isBaseline: true, value: r.value! - 5 }));
+    const withBaseline = analyzeResults([...baseline, ...rows], req);
+    const without = analyzeResults(rows, req);
+    // Same ANOVA as without the baseline rows (Montgomery's four temperatures only).
+    expect(withBaseline.anova.map((r) => r.ss)).toEqual(without.anova.map((r) => r.ss));
+    expect(withBaseline.seasonMeans.map((s) => s.season)).toEqual(["T1", "T2", "T3", "T4"]);
+    expect(withBaseline.notes).toContain("The baseline (T0) is left out: it was sampled before the treatments were applied.");
+    expect(without.notes.some((n) => n.includes("baseline"))).toBe(false);
+  });
+
   it("names the missing plot-seasons and points to per-season analyses", () => {
     const holed = rows.map((r) => (r.plotNumber === 202 && r.season === "T3" ? { ...r, value: null } : r));
     expect(() => analyzeResults(holed, req)).toThrow(ResultsError);
