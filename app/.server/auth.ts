@@ -11,13 +11,13 @@ import { db, schema } from "./db";
 import { env } from "./env";
 import { sendInvitationMail, sendPasswordResetMail } from "./mail";
 
-// better-auth's own statements (needed by its member and invitation endpoints) plus ours.
 /**
  * Sessions last 14 days; one used more than a day after its last refresh is extended (better-auth
  * writes the new expiry and sets the cookie again).
  */
 export const SESSION_TIMES = { expiresIn: 60 * 60 * 24 * 14, updateAge: 60 * 60 * 24 };
 
+// better-auth's own statements (needed by its member and invitation endpoints) plus ours.
 const statements = {
   ...defaultStatements,
   tilthmark: Object.keys(PERMISSIONS) as Permission[],

@@ -23,6 +23,7 @@ const MAX_AGE_MS = 60_000;
 /** How long after a write the writer's own reads skip the cache. */
 const RECENT_WRITE_MS = 10_000;
 export const RECENT_WRITE_COOKIE = "tilthmark_wrote";
+const RECENT_WRITE = new RegExp(`(?:^|;\\s*)${RECENT_WRITE_COOKIE}=(\\d+)`);
 const SESSION_COOKIE = /(^|;\s*)(__Secure-)?better-auth\.session_token=/;
 const NONCE = /'nonce-([A-Za-z0-9+/=]+)'/;
 
@@ -44,7 +45,7 @@ const entries = new LRUCache<string, Entry>({
 
 /** Milliseconds since the browser's last write, or null when it has not written lately. */
 function recentWriteAge(cookie: string): number | null {
-  const match = new RegExp(`(?:^|;\\s*)${RECENT_WRITE_COOKIE}=(\\d+)`).exec(cookie);
+  const match = RECENT_WRITE.exec(cookie);
   if (!match) return null;
   const age = Date.now() - Number(match[1]);
   return age >= 0 && age < RECENT_WRITE_MS ? age : null;
